@@ -1,0 +1,64 @@
+import { randomBytes } from "node:crypto";
+import { PassThrough } from "node:stream";
+import { createReadableStreamFromReadable } from "@react-router/node";
+import { isbot } from "isbot";
+import { renderToPipeableStream } from "react-dom/server";
+import type { EntryContext, HandleErrorFunction, RouterContextProvider } from "react-router";
+import { ServerRouter } from "react-router";
+import { NonceContext } from "./components/nonce";
+import { isDbUnavailable } from "./db.server";
+import { documentCsp } from "./services/security.server";
+
+export const streamTimeout = 5_000;
+
+export default function handleRequest(
+  request: Request,
+  responseStatusCode: number,
+  responseHeaders: Headers,
+  routerContext: EntryContext,
+  _loadContext: RouterContextProvider,
+) {
+  const nonce = randomBytes(16).toString("base64");
+  const isDev = process.env.NODE_ENV !== "production";
+  // Vite's dev client injects inline scripts; the strict policy applies to built apps.
+  if (!isDev) responseHeaders.set("Content-Security-Policy", documentCsp(nonce, isDev));
+  return new Promise<Response>((resolve, reject) => {
+    let shellRendered = false;
+    const userAgent = request.headers.get("user-agent");
+    // Crawlers and no-JS clients get the whole document at once.
+    const readyOption = (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
+    const { pipe, abort } = renderToPipeableStream(
+      <NonceContext.Provider value={nonce}>
+        <ServerRouter context={routerContext} url={request.url} nonce={nonce} />
+      </NonceContext.Provider>,
+      {
+        nonce,
+        [readyOption]() {
+          shellRendered = true;
+          const body = new PassThrough();
+          const stream = createReadableStreamFromReadable(body);
+          responseHeaders.set("Content-Type", "text/html; charset=utf-8");
+          resolve(new Response(stream, { headers: responseHeaders, status: responseStatusCode }));
+          pipe(body);
+        },
+        onShellError(error: unknown) {
+          reject(error);
+        },
+        onError(error: unknown) {
+          responseStatusCode = 500;
+          if (shellRendered) console.error(error);
+        },
+      },
+    );
+    setTimeout(abort, streamTimeout + 1000);
+  });
+}
+
+export const handleError: HandleErrorFunction = (error, { request }) => {
+  if (request.signal.aborted) return;
+  if (isDbUnavailable(error)) {
+    console.error(`[db] unavailable while serving ${new URL(request.url).pathname}`);
+    return;
+  }
+  console.error(error);
+};

@@ -1,0 +1,24 @@
+import { type RouteConfig, index, prefix, route } from "@react-router/dev/routes";
+
+export default [
+  index("routes/home.tsx"),
+
+  // Accounts
+  route("sign-in", "routes/sign-in.tsx"),
+  route("sign-up", "routes/sign-up.tsx"),
+  route("sign-out", "routes/sign-out.ts"),
+  route("verify-email", "routes/verify-email.tsx"),
+  route("forgot-password", "routes/forgot-password.tsx"),
+  route("reset-password", "routes/reset-password.tsx"),
+  route("accept-invite", "routes/accept-invite.tsx"),
+  route("account", "routes/account.tsx"),
+
+  // Staff and administration
+  route("staff", "routes/staff.tsx"),
+  ...prefix("admin", [route("users", "routes/admin.users.tsx")]),
+
+  // Operations
+  route("healthz", "routes/healthz.ts"),
+
+  route("*", "routes/not-found.tsx"),
+] satisfies RouteConfig;

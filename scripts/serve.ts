@@ -1,0 +1,65 @@
+// Production HTTP server: static assets from the client build, everything else through React
+// Router's request handler. Plain node:http keeps the per-request floor low; WEB_CONCURRENCY>1
+// runs that many processes with node:cluster (the app is stateless, so they share nothing).
+import cluster from "node:cluster";
+import { createServer } from "node:http";
+import path from "node:path";
+import { pathToFileURL } from "node:url";
+import compression from "compression";
+import { createRequestListener } from "@react-router/node";
+import { RouterContextProvider, type ServerBuild } from "react-router";
+import { clientAddressContext } from "../app/context";
+import sirv from "sirv";
+
+const buildDir = path.resolve(process.env.BUILD_DIR ?? "build");
+const host = process.env.HOST ?? "127.0.0.1";
+const port = Number(process.env.PORT ?? 3000);
+const workers = Number(process.env.WEB_CONCURRENCY ?? 1);
+/** 6 photos × 20 MB plus form fields. */
+const MAX_BODY_BYTES = 125 * 1024 * 1024;
+
+if (cluster.isPrimary && workers > 1) {
+  for (let i = 0; i < workers; i++) cluster.fork();
+  cluster.on("exit", (worker, code) => {
+    console.error(`[serve] worker ${worker.process.pid} exited (${code}); starting another`);
+    cluster.fork();
+  });
+} else {
+  const build: ServerBuild = await import(pathToFileURL(path.join(buildDir, "server/index.js")).href);
+  const handler = createRequestListener({
+    build,
+    mode: "production",
+    getLoadContext(_request, client) {
+      const context = new RouterContextProvider();
+      context.set(clientAddressContext, client.address);
+      return context;
+    },
+  });
+  // Fingerprinted assets never change: cache for a year. Other public files: an hour.
+  const assets = sirv(path.join(buildDir, "client"), {
+    etag: true,
+    gzip: false,
+    setHeaders(res, pathname) {
+      res.setHeader("X-Content-Type-Options", "nosniff");
+      res.setHeader("Cache-Control", pathname.startsWith("/assets/") ? "public, max-age=31536000, immutable" : "public, max-age=3600");
+    },
+  });
+  const compress = compression();
+
+  const server = createServer((req, res) => {
+    if (Number(req.headers["content-length"] ?? 0) > MAX_BODY_BYTES) {
+      res.writeHead(413, { "Content-Type": "application/json" }).end(JSON.stringify({ error: "Request too large." }));
+      return;
+    }
+    compress(req as never, res as never, () => {
+      assets(req, res, () => void handler(req, res));
+    });
+  });
+  server.keepAliveTimeout = 65_000;
+  server.listen(port, host, () => {
+    if (!cluster.isWorker || cluster.worker?.id === 1) console.log(`[serve] Tidewire on http://${host}:${port} (${workers} process${workers > 1 ? "es" : ""})`);
+  });
+  const stop = () => server.close(() => process.exit(0));
+  process.on("SIGTERM", stop);
+  process.on("SIGINT", stop);
+}

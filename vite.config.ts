@@ -1,0 +1,10 @@
+import { reactRouter } from "@react-router/dev/vite";
+import tailwindcss from "@tailwindcss/vite";
+import { defineConfig } from "vite";
+
+export default defineConfig({
+  plugins: [tailwindcss(), reactRouter()],
+  server: { host: "127.0.0.1" },
+  preview: { host: "127.0.0.1" },
+  resolve: { tsconfigPaths: true },
+});
