@@ -72,8 +72,12 @@ let counter = 0;
 export async function signedInAs(role: Role, name = `${role} tester`) {
   counter += 1;
   const user = await createUser({ email: `${role}-${Date.now()}-${counter}@test.example`, name, role, password: "correct horse battery", verified: true });
+  return { user, cookie: await sessionCookieFor(user.id) };
+}
+
+/** A fresh session for an existing user, as the Cookie header value. */
+export async function sessionCookieFor(userId: number): Promise<string> {
   const session = await sessionStorage().getSession();
-  session.set("userId", user.id);
-  const setCookie = await commitSession(session);
-  return { user, cookie: setCookie.split(";")[0] };
+  session.set("userId", userId);
+  return (await commitSession(session)).split(";")[0];
 }
