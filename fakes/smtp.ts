@@ -2,8 +2,8 @@
 // <id>.eml (raw) and <id>.json (parsed), and serves a small inbox on HTTP for people and tests.
 import { randomBytes } from "node:crypto";
 import { mkdirSync, readdirSync, readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
-import { createServer, type IncomingMessage, type Server, type ServerResponse } from "node:http";
-import type { AddressInfo } from "node:net";
+import { createServer, type IncomingMessage, type ServerResponse } from "node:http";
+import type { AddressInfo, Server as NetServer } from "node:net";
 import { join } from "node:path";
 import { simpleParser, type AddressObject } from "mailparser";
 import { SMTPServer } from "smtp-server";
@@ -69,7 +69,7 @@ function newId(): string {
   return `${t}-${String(seq++ % 10000).padStart(4, "0")}-${randomBytes(3).toString("hex")}`;
 }
 
-function listen(server: { listen: Server["listen"]; once: Server["once"]; off: Server["off"] }, port: number) {
+function listen(server: NetServer, port: number) {
   return new Promise<void>((resolve, reject) => {
     server.once("error", reject);
     server.listen(port, "127.0.0.1", () => {
@@ -110,7 +110,7 @@ function createSmtp(dir: string): SMTPServer {
             date: parsed.date ? parsed.date.toISOString() : null,
             text: parsed.text ?? "",
             html: typeof parsed.html === "string" ? parsed.html : "",
-            headerLines: parsed.headerLines,
+            headerLines: parsed.headerLines.map((h) => ({ key: h.key, line: h.line })),
           };
           writeFileSync(join(dir, `${id}.eml`), raw);
           // Write-then-rename: a reader never sees half a JSON file, and the .json appearing
