@@ -1,6 +1,6 @@
 import knex, { type Knex } from "knex";
 import { data } from "react-router";
-import { env } from "./env.server";
+import { env, type Env } from "./env.server";
 
 export type Db = Knex | Knex.Transaction;
 
@@ -37,8 +37,7 @@ export function serviceUnavailable() {
   );
 }
 
-function create(): Knex {
-  const e = env();
+export function createDb(e: Env): Knex {
   const instance = knex({
     client: "mysql2",
     connection: {
@@ -79,4 +78,4 @@ function create(): Knex {
   return instance;
 }
 
-export const db: Knex = (globalThis.__tidewireDb ??= create());
+export const db: Knex = (globalThis.__tidewireDb ??= createDb(env()));
