@@ -178,7 +178,12 @@ function messagePage(m: CapturedMail): string {
   );
 }
 
-function inboxHandler(dir: string) {
+interface SmtpControl {
+  stopSmtp(): Promise<void>;
+  startSmtp(): Promise<void>;
+}
+
+function inboxHandler(dir: string, control: SmtpControl) {
   return (req: IncomingMessage, res: ServerResponse) => {
     const url = new URL(req.url ?? "/", "http://127.0.0.1");
     const send = (status: number, type: string, body: string | Buffer) => {
@@ -197,6 +202,15 @@ function inboxHandler(dir: string) {
     if (req.method === "DELETE" && path === "/api/messages") {
       for (const f of readdirSync(dir)) rmSync(join(dir, f), { force: true });
       return json(200, { deleted: true });
+    }
+    // Lets a test in another process simulate a relay outage on the shared fake.
+    if (req.method === "POST" && (path === "/api/smtp/stop" || path === "/api/smtp/start")) {
+      const action = path.endsWith("stop") ? control.stopSmtp() : control.startSmtp();
+      void action.then(
+        () => json(200, { smtp: path.endsWith("stop") ? "stopped" : "listening" }),
+        (err: Error) => json(500, { error: err.message }),
+      );
+      return;
     }
     const m = /^\/(api\/)?messages\/([\w-]+?)(\.eml)?$/.exec(path);
     if (req.method === "GET" && m) {
@@ -219,33 +233,35 @@ export async function startSmtpFake(o: { smtpPort: number; httpPort: number; dir
   await listen(smtp.server, o.smtpPort);
   const smtpPort = (smtp.server.address() as AddressInfo).port;
 
-  const http = createServer(inboxHandler(o.dir));
-  try {
-    await listen(http, o.httpPort);
-  } catch (err) {
-    await new Promise<void>((r) => smtp!.close(() => r()));
-    throw err;
-  }
-  const httpPort = (http.address() as AddressInfo).port;
-
   const stopSmtp = async () => {
     if (!smtp) return;
     const s = smtp;
     smtp = undefined;
     await new Promise<void>((r) => s.close(() => r()));
   };
+  const startSmtp = async () => {
+    if (smtp) return;
+    const s = createSmtp(o.dir);
+    await listen(s.server, smtpPort);
+    smtp = s;
+  };
+
+  const http = createServer(inboxHandler(o.dir, { stopSmtp, startSmtp }));
+  try {
+    await listen(http, o.httpPort);
+  } catch (err) {
+    await stopSmtp();
+    throw err;
+  }
+  const httpPort = (http.address() as AddressInfo).port;
+
   return {
     smtpPort,
     httpPort,
     dir: o.dir,
     messages: () => readMessages(o.dir),
     stopSmtp,
-    async startSmtp() {
-      if (smtp) return;
-      const s = createSmtp(o.dir);
-      await listen(s.server, smtpPort);
-      smtp = s;
-    },
+    startSmtp,
     async stop() {
       await stopSmtp();
       await new Promise<void>((r) => {

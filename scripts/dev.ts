@@ -8,7 +8,8 @@ import { migrateLatest, runSeeds } from "./lib/knex-ops";
 import { ensureMariadbInstalled, startMariadb, stopMariadb } from "./lib/mariadb";
 import { DEMO_MARIADB_DIR, ROOT } from "./lib/paths";
 
-const env = { ...process.env, ...demoEnv(), NODE_ENV: "development" };
+const demo = demoEnv();
+const env: NodeJS.ProcessEnv = { ...process.env, ...demo, NODE_ENV: "development" };
 ensureMariadbInstalled();
 const db = await startMariadb({ baseDir: DEMO_MARIADB_DIR, ...demoDb(env) });
 const fakes = await startDemoFakes(env);
@@ -19,7 +20,7 @@ console.log(`[dev] MariaDB 127.0.0.1:${db.port}, mail inbox ${fakes.inboxUrl}`);
 const vite = spawnChild(
   "react-router dev",
   process.execPath,
-  [join(ROOT, "node_modules/@react-router/dev/bin.js"), "dev", "--host", env.HOST, "--port", env.PORT],
+  [join(ROOT, "node_modules/@react-router/dev/bin.js"), "dev", "--host", demo.HOST!, "--port", demo.PORT!],
   { env },
 );
 let stopping: Promise<void> | undefined;

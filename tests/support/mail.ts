@@ -60,3 +60,17 @@ export function linkIn(m: CapturedMail, part: string): string {
   if (!link) throw new Error(`no link containing ${part} in mail "${m.subject}":\n${m.text}`);
   return link;
 }
+
+async function smtpControl(action: "stop" | "start"): Promise<void> {
+  const base = process.env.TEST_MAIL_INBOX_URL;
+  if (!base) throw new Error("TEST_MAIL_INBOX_URL is not set: are the test services running?");
+  const res = await fetch(`${base}/api/smtp/${action}`, { method: "POST" });
+  if (!res.ok) throw new Error(`SMTP fake ${action} failed: ${res.status} ${await res.text()}`);
+}
+
+/**
+ * Simulates an SMTP relay outage: the shared fake stops listening (connections are refused)
+ * until restoreSmtp(), which listens again on the same port. Always restore in a finally/afterEach.
+ */
+export const stopSmtp = () => smtpControl("stop");
+export const restoreSmtp = () => smtpControl("start");
