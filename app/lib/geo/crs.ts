@@ -1,0 +1,180 @@
+/**
+ * Coordinate conversion between the CRSs in crs-registry.ts, with proj4.
+ *
+ * proj4 traps handled here (STACK.md "Numerical traps"):
+ * - Ellipsoids are passed as +a/+rf, never +ellps names (an unknown +ellps is silently WGS 84).
+ * - +towgs84 is source → WGS 84 in the Position Vector convention (see crs-registry.ts).
+ * - Only horizontal positions are converted; heights are not carried (proj4 passes the input
+ *   height through unchanged for geographic → geographic, which would be wrong with a datum
+ *   shift).
+ *
+ * Converters are built once per (CRS, transformation) pair and cached.
+ */
+import proj4 from "proj4";
+import { GeoInputError } from "./errors";
+import {
+  ELLIPSOIDS,
+  type CrsDefinition,
+  type DatumTransformation,
+  getCrs,
+  getDatum,
+  parseCrsCode,
+  resolveTransformation,
+  toPositionVector,
+} from "./crs-registry";
+
+export type GeographicCoord = { lat: number; lon: number };
+export type ProjectedCoord = { easting: number; northing: number };
+export type Coord = GeographicCoord | ProjectedCoord;
+
+export type CrsInput = number | string | CrsDefinition;
+
+export function isGeographicCoord(c: Coord): c is GeographicCoord {
+  return (c as GeographicCoord).lat !== undefined;
+}
+
+/** Look up a CRS by EPSG number, "EPSG:xxxx" text or definition; throws GeoInputError. */
+export function resolveCrs(crs: CrsInput, field = "crs"): CrsDefinition {
+  if (typeof crs === "object") return crs;
+  const r = parseCrsCode(String(crs));
+  if (!r.ok) throw new GeoInputError(r.error, field, "unsupported_crs");
+  return r.crs;
+}
+
+/** The proj4 definition string for a CRS with a chosen transformation to WGS 84. */
+export function proj4Definition(crs: CrsDefinition, transformation: DatumTransformation): string {
+  const datum = getDatum(crs.datum);
+  const e = ELLIPSOIDS[datum.ellipsoid];
+  // The +towgs84 values below come from the transformation record, which names its EPSG code
+  // (e.g. EPSG:1314 for OSGB36) — see crs-registry.ts.
+  const towgs84 = toPositionVector(transformation).join(",");
+  const base = crs.kind === "geographic" ? "+proj=longlat" : crs.projection!;
+  return `${base} +a=${e.a} +rf=${e.rf} +towgs84=${towgs84} +no_defs`;
+}
+
+type Converter = proj4.Converter;
+const converterCache = new Map<string, Converter>();
+const WGS84_DEF = `+proj=longlat +a=${ELLIPSOIDS.wgs84.a} +rf=${ELLIPSOIDS.wgs84.rf} +towgs84=0,0,0 +no_defs`;
+
+function transformationFor(crs: CrsDefinition, id: string | undefined, field: string): DatumTransformation {
+  const r = resolveTransformation(crs.datum, id);
+  if (!r.ok) throw new GeoInputError(r.error, field, "unknown_transformation");
+  return r.transformation;
+}
+
+/** A cached proj4 converter from `crs` (with transformation) to WGS 84 geographic. */
+function toWgs84Converter(crs: CrsDefinition, t: DatumTransformation): Converter {
+  const key = `${crs.code}|${t.id}`;
+  let c = converterCache.get(key);
+  if (!c) {
+    c = proj4(proj4Definition(crs, t), WGS84_DEF);
+    converterCache.set(key, c);
+  }
+  return c;
+}
+
+/** Number of cached converters (for the benchmark and tests). */
+export function cachedConverterCount(): number {
+  return converterCache.size;
+}
+
+function checkGeographic(c: GeographicCoord, field: string): void {
+  if (!Number.isFinite(c.lat) || !Number.isFinite(c.lon) || Math.abs(c.lat) > 90 || Math.abs(c.lon) > 180) {
+    throw new GeoInputError("Latitude must be within ±90° and longitude within ±180°", field, "out_of_range");
+  }
+}
+
+function checkCoordKind(crs: CrsDefinition, coord: Coord, field: string): void {
+  const geographic = isGeographicCoord(coord);
+  if (crs.kind === "geographic" && !geographic) {
+    throw new GeoInputError(`${crs.id} is geographic: give a latitude and longitude`, field, "wrong_coordinate_kind");
+  }
+  if (crs.kind === "projected" && geographic) {
+    throw new GeoInputError(`${crs.id} is projected: give an easting and northing in metres`, field, "wrong_coordinate_kind");
+  }
+  if (geographic) checkGeographic(coord, field);
+  else if (!Number.isFinite(coord.easting) || !Number.isFinite(coord.northing)) {
+    throw new GeoInputError("Easting and northing must be numbers", field, "out_of_range");
+  }
+}
+
+function finite(xy: number[], crs: CrsDefinition, field: string): void {
+  if (!Number.isFinite(xy[0]) || !Number.isFinite(xy[1])) {
+    throw new GeoInputError(`This position cannot be expressed in ${crs.id}`, field, "not_representable");
+  }
+}
+
+export interface ConvertOptions {
+  /** Transformation id for the source CRS's datum (default: the datum's documented default). */
+  fromTransformation?: string;
+  /** Transformation id for the target CRS's datum. */
+  toTransformation?: string;
+  /** Field path to report errors against. */
+  field?: string;
+}
+
+/** Convert a coordinate in `crs` to WGS 84 latitude/longitude. */
+export function toWgs84(crs: CrsInput, coord: Coord, options: { transformation?: string; field?: string } = {}): GeographicCoord {
+  const field = options.field ?? "position";
+  const def = resolveCrs(crs, "crs");
+  checkCoordKind(def, coord, field);
+  const t = transformationFor(def, options.transformation, "transformation");
+  if (def.datum === "WGS84" && def.kind === "geographic") {
+    const g = coord as GeographicCoord;
+    return { lat: g.lat, lon: g.lon };
+  }
+  const input = isGeographicCoord(coord) ? [coord.lon, coord.lat] : [coord.easting, coord.northing];
+  const out = toWgs84Converter(def, t).forward(input) as number[];
+  finite(out, def, field);
+  return { lat: out[1]!, lon: normaliseLon(out[0]!) };
+}
+
+/** Convert WGS 84 latitude/longitude into `crs`. */
+export function fromWgs84(crs: CrsInput, lat: number, lon: number, options: { transformation?: string; field?: string } = {}): Coord {
+  const field = options.field ?? "position";
+  const def = resolveCrs(crs, "crs");
+  checkGeographic({ lat, lon }, field);
+  const t = transformationFor(def, options.transformation, "transformation");
+  if (def.datum === "WGS84" && def.kind === "geographic") return { lat, lon };
+  const out = toWgs84Converter(def, t).inverse([lon, lat]) as number[];
+  finite(out, def, field);
+  return def.kind === "geographic" ? { lat: out[1]!, lon: normaliseLon(out[0]!) } : { easting: out[0]!, northing: out[1]! };
+}
+
+/** Convert between any two supported CRSs (through WGS 84 with the chosen transformations). */
+export function convert(from: CrsInput, to: CrsInput, coord: Coord, options: ConvertOptions = {}): Coord {
+  const field = options.field ?? "position";
+  const f = resolveCrs(from, "from");
+  const t = resolveCrs(to, "to");
+  const ft = transformationFor(f, options.fromTransformation, "fromTransformation");
+  const tt = transformationFor(t, options.toTransformation, "toTransformation");
+  const g = toWgs84(f, coord, { transformation: ft.id, field });
+  return fromWgs84(t, g.lat, g.lon, { transformation: tt.id, field });
+}
+
+/**
+ * The transformations a conversion uses and their combined stated accuracy (root sum of
+ * squares of the EPSG accuracies of each datum shift; 0 when both are WGS 84).
+ */
+export function conversionInfo(from: CrsInput, to: CrsInput, options: ConvertOptions = {}) {
+  const f = resolveCrs(from, "from");
+  const t = resolveCrs(to, "to");
+  const ft = transformationFor(f, options.fromTransformation, "fromTransformation");
+  const tt = transformationFor(t, options.toTransformation, "toTransformation");
+  const used = [ft, tt].filter((x) => x.id !== "identity");
+  const accuracyM = Math.sqrt(used.reduce((s, x) => s + x.accuracyM ** 2, 0));
+  return {
+    from: f,
+    to: t,
+    transformations: used.map((x) => ({ id: x.id, name: x.name, accuracyM: x.accuracyM, method: x.method })),
+    accuracyM,
+  };
+}
+
+function normaliseLon(lon: number): number {
+  if (lon > 180) return lon - 360;
+  if (lon < -180) return lon + 360;
+  return lon;
+}
+
+export { getCrs, listCrs, parseCrsCode, resolveTransformation } from "./crs-registry";
