@@ -1,0 +1,115 @@
+// The role × route matrix over HTTP against the production build: every loader (GET, as a
+// document and as React Router's single-fetch `.data` request) and every action (POST, same
+// origin) of every route in app/routes.ts, as each role. A route missing from ACCESS fails the
+// suite, so a new route cannot ship without a decision about who may use it.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import routes from "~/routes";
+import { closeQdb, qdb } from "../../scripts/quality/db";
+import { request, type Reply } from "../../scripts/quality/http";
+import { cookiesByRole, TESTERS, type Tester } from "../../scripts/quality/people";
+import { fixtures, type Fixtures } from "./fixtures";
+
+type Who = "public" | "signed-in" | "anonymous-only" | readonly string[];
+type Access = {
+  path: string | ((f: Fixtures) => string | undefined);
+  loader?: Who;
+  action?: Who;
+  /** Body of the probing POST (default: empty form). */
+  form?: Record<string, string>;
+  json?: unknown;
+  /** A resource route answering JSON (API) rather than a page. */
+  api?: boolean;
+};
+
+const STAFF = ["officer", "harbourmaster", "admin"] as const;
+const DRAFTERS = ["officer", "harbourmaster"] as const;
+const PUBLISHERS = ["harbourmaster"] as const;
+const MAIL_ADMINS = ["harbourmaster", "admin"] as const;
+const ADMINS = ["admin"] as const;
+void DRAFTERS;
+void PUBLISHERS;
+void MAIL_ADMINS;
+
+/** route file → who may call its loader and its action. */
+const ACCESS: Record<string, Access> = {
+  "routes/home.tsx": { path: "/", loader: "public" },
+  "routes/sign-in.tsx": { path: "/sign-in", loader: "anonymous-only", action: "anonymous-only" },
+  "routes/sign-up.tsx": { path: "/sign-up", loader: "anonymous-only", action: "anonymous-only" },
+  "routes/sign-out.ts": { path: "/sign-out", loader: "public", action: "public" },
+  "routes/verify-email.tsx": { path: "/verify-email?token=nope", loader: "public" },
+  "routes/forgot-password.tsx": { path: "/forgot-password", loader: "anonymous-only", action: "anonymous-only" },
+  "routes/reset-password.tsx": { path: "/reset-password?token=nope", loader: "public", action: "public" },
+  "routes/accept-invite.tsx": { path: "/accept-invite?token=nope", loader: "public", action: "public" },
+  "routes/account.tsx": { path: "/account", loader: "signed-in" },
+  "routes/staff.tsx": { path: "/staff", loader: STAFF },
+  "routes/admin.users.tsx": { path: "/admin/users", loader: ADMINS, action: ADMINS },
+  "routes/healthz.ts": { path: "/healthz", loader: "public", api: true },
+  "routes/not-found.tsx": { path: "/no-such-page", loader: "public", action: "public" },
+};
+
+type RouteEntry = { file: string; children?: RouteEntry[] };
+const files = (entries: RouteEntry[]): string[] => entries.flatMap((e) => [e.file, ...files(e.children ?? [])]);
+
+function allowed(who: Who, tester: Tester): boolean {
+  if (who === "public") return true;
+  if (who === "signed-in") return tester !== "anonymous";
+  if (who === "anonymous-only") return tester === "anonymous";
+  return tester !== "anonymous" && (who as readonly string[]).includes(tester);
+}
+
+/** Refused: sent to sign-in (or, for anonymous-only pages, to the account), or 401/403. */
+function refused(r: Reply): boolean {
+  if (r.status === 401 || r.status === 403) return true;
+  return r.status >= 300 && r.status < 400 && !!r.location && /^(https?:\/\/[^/]+)?\/(sign-in|account)(\?|$)/.test(r.location);
+}
+
+/** Single-fetch (`/x.data`) replies: 403/401, or 202 with a SingleFetchRedirect to sign-in. */
+function dataRefused(r: Reply): boolean {
+  if (r.status === 401 || r.status === 403) return true;
+  return r.status === 202 && /"SingleFetchRedirect"/.test(r.text) && /"\/(sign-in|account)[?"]/.test(r.text);
+}
+
+const base = () => process.env.QUALITY_BASE_URL!;
+let fx: Fixtures;
+
+beforeAll(async () => {
+  fx = await fixtures(qdb());
+});
+afterAll(closeQdb);
+
+describe("role × route matrix over HTTP", () => {
+  it("lists every route in app/routes.ts", () => {
+    const missing = files(routes as RouteEntry[]).filter((f) => !ACCESS[f]);
+    expect(missing, "add these routes to ACCESS in tests/security/matrix.test.ts").toEqual([]);
+  });
+
+  for (const [file, access] of Object.entries(ACCESS)) {
+    for (const kind of ["loader", "action"] as const) {
+      const who = access[kind];
+      if (!who) continue;
+      it(`${kind} of ${file}`, async () => {
+        const path = typeof access.path === "function" ? access.path(fx) : access.path;
+        expect(path, `no fixture for ${file}`).toBeTruthy();
+        const outcome: string[] = [];
+        for (const tester of TESTERS) {
+          // Fresh sessions each time: sign-out as one role must not affect the next case.
+          const c = await cookiesByRole(qdb(), process.env.SESSION_SECRET!).then((all) => all[tester]);
+          const r =
+            kind === "loader"
+              ? await request(base(), path!, { cookie: c })
+              : await request(base(), path!, { method: "POST", cookie: c, ...(access.json !== undefined ? { json: access.json } : { form: access.form ?? {} }) });
+          outcome.push(`${tester} ${kind === "loader" ? "GET" : "POST"} ${path} → ${r.status} ${r.location ?? ""}`);
+          expect(r.status, `never a 500: ${outcome.at(-1)}\n${r.text.slice(0, 400)}`).toBeLessThan(500);
+          expect(refused(r), outcome.join("\n")).toBe(!allowed(who, tester));
+          if (kind === "loader" && !access.api && !allowed(who, tester) && who !== "anonymous-only") {
+            // The client-side navigation path must refuse as well, not leak the loader's data.
+            const [p, q] = path!.split("?");
+            const d = await request(base(), `${p === "/" ? "/_root" : p}.data${q ? "?" + q : ""}`, { cookie: c });
+            expect(d.status, `${tester} GET ${p}.data must not 500`).toBeLessThan(500);
+            expect(dataRefused(d), `${tester} GET ${p}.data → ${d.status} ${d.text.slice(0, 300)}`).toBe(true);
+          }
+        }
+      });
+    }
+  }
+});
