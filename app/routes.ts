@@ -17,6 +17,15 @@ export default [
   route("staff", "routes/staff.tsx"),
   ...prefix("admin", [route("users", "routes/admin.users.tsx")]),
 
+  // Subscriptions (alerts and digests by e-mail)
+  route("subscribe", "routes/subscribe.tsx"),
+  route("subscribe/sent", "routes/subscribe.sent.tsx"),
+  route("subscribe/confirm", "routes/subscribe.confirm.tsx"),
+  route("subscriptions/manage", "routes/subscriptions.manage.tsx"),
+  route("unsubscribe", "routes/unsubscribe.tsx"),
+  route("account/subscriptions", "routes/account.subscriptions.tsx"),
+  route("staff/mail", "routes/staff.mail.tsx"),
+
   // Operations
   route("healthz", "routes/healthz.ts"),
 

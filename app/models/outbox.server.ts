@@ -53,31 +53,61 @@ export type OutboxRow = {
 
 export const MAX_ATTEMPTS = 10;
 export const CLAIM_LEASE_MS = 2 * 60_000;
+export const BACKOFF_BASE_MS = 15_000;
+export const BACKOFF_MAX_MS = 3600_000;
 
-/** Exponential backoff: 15 s, 30 s, 1 min … capped at 1 h. */
-export function backoffMs(attempts: number): number {
-  return Math.min(3600_000, 15_000 * 2 ** Math.max(0, attempts - 1));
+/** Several messages in one multi-row INSERT (digests); keys already queued are ignored. */
+export async function enqueueMails(mails: OutboxMail[], db: Db = defaultDb): Promise<void> {
+  const now = new Date();
+  for (let i = 0; i < mails.length; i += 200) {
+    const rows = mails.slice(i, i + 200).map((mail) => ({
+      idempotency_key: mail.idempotencyKey,
+      kind: mail.kind,
+      to_address: mail.to,
+      subject: mail.subject,
+      body_text: mail.text,
+      body_html: mail.html ?? null,
+      headers: JSON.stringify(mail.headers ?? {}),
+      status: "queued",
+      run_at: mail.runAt ?? now,
+    }));
+    if (rows.length) await db("outbox").insert(rows).onConflict("idempotency_key").ignore();
+  }
 }
 
+/** Exponential backoff: 15 s, 30 s, 1 min … capped at 1 h (base and cap can be lowered in tests). */
+export function backoffMs(attempts: number, baseMs = BACKOFF_BASE_MS, maxMs = BACKOFF_MAX_MS): number {
+  return Math.min(maxMs, baseMs * 2 ** Math.max(0, attempts - 1));
+}
+
+export type ClaimOptions = { leaseMs?: number };
+
 /**
- * Claims up to `limit` due messages. SKIP LOCKED lets several workers claim disjoint sets;
- * ordering by the indexed (status, run_at, id) keeps one worker from locking every row.
- * A lease (locked_until) returns the job to the queue if the worker dies while sending.
+ * Claims up to `limit` due messages: first queued ones whose time has come, then ones whose
+ * sender's lease ran out (a worker that died while sending). SKIP LOCKED lets several workers
+ * claim disjoint sets; each query walks the (status, run_at, id) index in order, so a worker
+ * locks only the rows it takes and a second worker finds the next ones.
  */
-export async function claimBatch(limit: number, workerId: string, db = defaultDb): Promise<OutboxRow[]> {
+export async function claimBatch(limit: number, workerId: string, db = defaultDb, opts: ClaimOptions = {}): Promise<OutboxRow[]> {
   return db.transaction(async (trx) => {
     const now = new Date();
     const rows: OutboxRow[] = await trx("outbox")
-      .where(function () {
-        this.where({ status: "queued" }).andWhere("run_at", "<=", now);
-      })
-      .orWhere(function () {
-        this.where({ status: "sending" }).andWhere("locked_until", "<", now);
-      })
+      .where({ status: "queued" })
+      .andWhere("run_at", "<=", now)
       .orderBy([{ column: "run_at" }, { column: "id" }])
       .limit(limit)
       .forUpdate()
       .skipLocked();
+    if (rows.length < limit) {
+      const stale: OutboxRow[] = await trx("outbox")
+        .where({ status: "sending" })
+        .andWhere("locked_until", "<", now)
+        .orderBy([{ column: "run_at" }, { column: "id" }])
+        .limit(limit - rows.length)
+        .forUpdate()
+        .skipLocked();
+      rows.push(...stale);
+    }
     if (rows.length === 0) return [];
     await trx("outbox")
       .whereIn(
@@ -87,24 +117,27 @@ export async function claimBatch(limit: number, workerId: string, db = defaultDb
       .update({
         status: "sending",
         locked_by: workerId,
-        locked_until: new Date(now.getTime() + CLAIM_LEASE_MS),
+        locked_until: new Date(now.getTime() + (opts.leaseMs ?? CLAIM_LEASE_MS)),
         attempts: trx.raw("attempts + 1"),
       });
     return rows.map((r) => ({ ...r, attempts: r.attempts + 1 }));
   });
 }
 
-export async function markSent(id: number, db: Db = defaultDb) {
-  await db("outbox").where({ id }).update({ status: "sent", sent_at: new Date(), locked_until: null, last_error: null });
+/** Recorded right after the SMTP server accepts the message; only the claiming worker may. */
+export async function markSent(id: number, db: Db = defaultDb, workerId?: string) {
+  const q = db("outbox").where({ id, status: "sending" });
+  if (workerId) q.andWhere({ locked_by: workerId });
+  await q.update({ status: "sent", sent_at: new Date(), locked_until: null, last_error: null });
 }
 
-export async function markFailedAttempt(row: OutboxRow, error: string, db: Db = defaultDb) {
+export async function markFailedAttempt(row: OutboxRow, error: string, db: Db = defaultDb, backoff: { baseMs?: number; maxMs?: number } = {}) {
   const giveUp = row.attempts >= MAX_ATTEMPTS;
   await db("outbox")
-    .where({ id: row.id })
+    .where({ id: row.id, status: "sending" })
     .update({
       status: giveUp ? "failed" : "queued",
-      run_at: new Date(Date.now() + backoffMs(row.attempts)),
+      run_at: new Date(Date.now() + backoffMs(row.attempts, backoff.baseMs, backoff.maxMs)),
       locked_until: null,
       last_error: error.slice(0, 2000),
     });
@@ -112,4 +145,25 @@ export async function markFailedAttempt(row: OutboxRow, error: string, db: Db = 
 
 export async function requeueFailed(id: number, db: Db = defaultDb) {
   return db("outbox").where({ id, status: "failed" }).update({ status: "queued", attempts: 0, run_at: new Date(), last_error: null });
+}
+
+// ---------------------------------------------------------------------------------------------
+// Staff view
+
+export async function outboxCounts(db: Db = defaultDb) {
+  const rows = await db("outbox").select("status", "kind").count({ n: "*" }).sum({ attempts: "attempts" }).groupBy("status", "kind");
+  return rows.map((r: Record<string, any>) => ({ status: r.status as OutboxRow["status"], kind: r.kind as string, count: Number(r.n), attempts: Number(r.attempts ?? 0) }));
+}
+
+/** Messages still waiting after a failed attempt (queued with an error), and failed ones. */
+export async function listTroubledMail(limit = 50, db: Db = defaultDb) {
+  return db("outbox")
+    .select("id", "idempotency_key", "kind", "to_address", "subject", "status", "attempts", "run_at", "last_error", "created_at")
+    .where((q) => q.where({ status: "failed" }).orWhere((w) => w.where({ status: "queued" }).whereNotNull("last_error")))
+    .orderBy("id", "desc")
+    .limit(limit);
+}
+
+export async function listRecentMail(limit = 30, db: Db = defaultDb) {
+  return db("outbox").select("id", "kind", "to_address", "subject", "status", "attempts", "sent_at", "created_at").orderBy("id", "desc").limit(limit);
 }

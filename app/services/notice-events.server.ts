@@ -1,10 +1,31 @@
 import type { Knex } from "knex";
+import { enqueueMail } from "~/models/outbox.server";
+import { findAlertRecipients, getHarbourForMail, loadNoticesForMail } from "~/models/subscription.server";
+import { alertMail } from "./subscription-mail.server";
 
 export type NoticeEventKind = "published" | "amended" | "cancelled" | "expired";
 
+/** Kinds that send an immediate alert for an urgent notice (expiry only shows in digests). */
+const ALERT_KINDS = new Set<NoticeEventKind>(["published", "amended", "cancelled"]);
+
 /**
  * Called by the notices model inside the transaction that changes a notice, so anything that
- * follows from the change (alerts queued in the outbox) commits or rolls back with it.
- * The subscriptions feature fills this in.
+ * follows from the change commits or rolls back with it: the change is logged for digests and,
+ * for urgent notices, one alert per matching confirmed subscription is queued in the outbox.
+ * The idempotency key `alert:<subscription>:<notice>:<kind>:<version>` makes a repeated call
+ * for the same change queue nothing new.
  */
-export async function onNoticeEvent(_trx: Knex.Transaction, _event: { kind: NoticeEventKind; noticeId: number }): Promise<void> {}
+export async function onNoticeEvent(trx: Knex.Transaction, event: { kind: NoticeEventKind; noticeId: number }): Promise<{ alerts: number }> {
+  const notice = (await loadNoticesForMail([event.noticeId], trx)).get(event.noticeId);
+  if (!notice) throw new Error(`onNoticeEvent: notice ${event.noticeId} not found`);
+  await trx("notice_changes").insert({ notice_id: notice.id, kind: event.kind, version: notice.version, occurred_at: new Date() });
+  if (notice.urgency !== "urgent" || !ALERT_KINDS.has(event.kind)) return { alerts: 0 };
+  const harbour = await getHarbourForMail(notice.harbourId, trx);
+  if (!harbour) return { alerts: 0 };
+  const recipients = await findAlertRecipients(notice, trx);
+  for (const sub of recipients) {
+    const mail = alertMail(sub, harbour, notice, event.kind as "published" | "amended" | "cancelled");
+    await enqueueMail({ idempotencyKey: `alert:${sub.id}:${notice.id}:${event.kind}:${notice.version}`, kind: "alert", to: sub.email, ...mail }, trx);
+  }
+  return { alerts: recipients.length };
+}

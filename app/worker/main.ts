@@ -1,23 +1,36 @@
-// The background worker: delivers the outbox and runs scheduled jobs. Several can run at once.
+// The background worker: delivers the outbox and runs scheduled jobs (app/worker/jobs.ts).
+// Several can run at once: every job claims its work with FOR UPDATE SKIP LOCKED.
+// WORKER_JOBS=outbox,digests limits which jobs this process runs (tests, benchmarks).
 import { hostname } from "node:os";
-import { runOutboxOnce } from "./outbox";
+import { jobs } from "./jobs";
 import { db } from "~/db.server";
 
 const workerId = `${hostname()}:${process.pid}`;
-const IDLE_POLL_MS = Number(process.env.WORKER_POLL_MS ?? 1000);
+const only = process.env.WORKER_JOBS?.split(",").map((s) => s.trim()).filter(Boolean);
+const active = jobs.filter((j) => !only || only.includes(j.name));
+const nextRunAt = new Map<string, number>(active.map((j) => [j.name, 0]));
 let stopping = false;
 
 async function loop() {
-  console.log(`[worker ${workerId}] started`);
+  console.log(`[worker ${workerId}] started: ${active.map((j) => j.name).join(", ")}`);
   while (!stopping) {
-    let sent = 0;
-    try {
-      sent = await runOutboxOnce(workerId);
-    } catch (error) {
-      // A database outage must not kill the worker: wait and try again.
-      console.error(`[worker] cycle failed: ${(error as Error).message ?? error}`);
+    let busy = false;
+    for (const job of active) {
+      if (stopping || Date.now() < nextRunAt.get(job.name)!) continue;
+      let done = 0;
+      try {
+        done = await job.run({ workerId });
+      } catch (error) {
+        // A database or SMTP outage must not kill the worker: wait and try again.
+        console.error(`[worker] ${job.name} failed: ${(error as Error).message ?? error}`);
+      }
+      if (done > 0) busy = true;
+      nextRunAt.set(job.name, done > 0 ? 0 : Date.now() + job.everyMs);
     }
-    if (sent === 0) await new Promise((r) => setTimeout(r, IDLE_POLL_MS));
+    if (!busy && !stopping) {
+      const wait = Math.max(10, Math.min(...[...nextRunAt.values()].map((t) => t - Date.now())));
+      await new Promise((r) => setTimeout(r, Math.min(wait, 1000)));
+    }
   }
   await db.destroy();
   console.log(`[worker ${workerId}] stopped`);
