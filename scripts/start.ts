@@ -9,6 +9,7 @@ import { demoDb, demoEnv } from "./lib/demo-env";
 import { migrateLatest, runSeeds } from "./lib/knex-ops";
 import { ensureMariadbInstalled, startMariadb, stopMariadb } from "./lib/mariadb";
 import { DEMO_MARIADB_DIR, ROOT } from "./lib/paths";
+import { portFree } from "./lib/ports";
 
 const t0 = Date.now();
 const timings: Array<[string, number]> = [];
@@ -43,6 +44,11 @@ async function shutdown(code: number): Promise<never> {
 for (const sig of ["SIGINT", "SIGTERM", "SIGHUP"] as const) process.on(sig, () => void shutdown(0));
 
 try {
+  // Checked up front: fail in a second rather than after the build, and never let an older
+  // server on the port answer our health check.
+  if (!(await portFree(Number(env.PORT), env.HOST))) {
+    throw new Error(`${env.HOST}:${env.PORT} is already in use (another npm start?). Set PORT to use another port.`);
+  }
   await phase("MariaDB installed", () => ensureMariadbInstalled());
   await phase("MariaDB", async () => {
     const r = await startMariadb({ baseDir: DEMO_MARIADB_DIR, ...demoDb(env) });
@@ -76,7 +82,8 @@ try {
   if (existsSync(accountsFile)) {
     const accounts = JSON.parse(readFileSync(accountsFile, "utf8")) as Array<{ email: string; password: string; role: string; name?: string }>;
     console.log("\nDemo accounts:");
-    for (const a of accounts) console.log(`  ${a.role.padEnd(14)} ${a.email.padEnd(34)} ${a.password}${a.name ? `   (${a.name})` : ""}`);
+    const w = Math.max(...accounts.map((a) => a.email.length)) + 2;
+    for (const a of accounts) console.log(`  ${a.role.padEnd(14)} ${a.email.padEnd(w)} ${a.password.padEnd(22)} ${a.name ?? ""}`);
   }
   console.log(`\nTimings: ${timings.map(([n, ms]) => `${n} ${ms} ms`).join(", ")}`);
   console.log("Press Ctrl-C to stop.");

@@ -15,3 +15,13 @@ export function freePort(): Promise<number> {
     });
   });
 }
+
+/** True when nothing listens on host:port (we can bind it). */
+export function portFree(port: number, host = "127.0.0.1"): Promise<boolean> {
+  return new Promise((resolve) => {
+    const srv = createServer();
+    srv.unref();
+    srv.once("error", () => resolve(false));
+    srv.listen(port, host, () => srv.close(() => resolve(true)));
+  });
+}
