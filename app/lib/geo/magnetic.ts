@@ -81,8 +81,9 @@ export interface Declination {
   decimalYear: number;
 }
 
-const cache = new Map<string, Declination>();
-const CACHE_MAX = 256;
+// The timed model (coefficients at one instant) is reused while requests ask for the same
+// instant — several observations of one report, or a repeated request.
+let lastTimed: { t: number; name: string; model: ReturnType<WmmModel["getTimedModel"]> } | null = null;
 
 /**
  * Declination (east positive) at a place and time. Throws GeoInputError when the date is
@@ -92,9 +93,6 @@ export function magneticDeclination(lat: number, lon: number, at: Date, heightKm
   const t = at.getTime();
   if (!Number.isFinite(t)) throw new GeoInputError("Give the date and time of the observation", field, "invalid_date");
   if (!(Math.abs(lat) <= 90 && Math.abs(lon) <= 180)) throw new GeoInputError("Position out of range", "position", "out_of_range");
-  const key = `${lat}|${lon}|${t}|${heightKm}`;
-  const hit = cache.get(key);
-  if (hit) return hit;
   const w = modelWindows().find((x) => t >= x.start.getTime() && t < x.end.getTime());
   if (!w) {
     const iso = at.toISOString().slice(0, 10);
@@ -106,16 +104,16 @@ export function magneticDeclination(lat: number, lon: number, at: Date, heightKm
       "date_outside_magnetic_model",
     );
   }
-  const p = w.model.getTimedModel(at).point([lat, lon, heightKm]);
+  if (!lastTimed || lastTimed.t !== t || lastTimed.name !== w.name) {
+    lastTimed = { t, name: w.name, model: w.model.getTimedModel(at) };
+  }
+  const p = lastTimed.model.point([lat, lon, heightKm]);
   const year = at.getUTCFullYear();
-  const r: Declination = {
+  return {
     declinationDeg: p.decl,
     model: w.name,
     decimalYear: year + (t - Date.UTC(year, 0, 1)) / (1000 * 3600 * 24 * 365),
   };
-  if (cache.size >= CACHE_MAX) cache.clear();
-  cache.set(key, r);
-  return r;
 }
 
 /** True bearing from a magnetic one: declination is east-positive (true = magnetic + declination). */

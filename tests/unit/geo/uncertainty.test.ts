@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import {
   addCov,
   CHI2_2DOF_99,
+  computeRadius95Factor,
   covAlongCross,
   covFromRadius95,
   invert,
@@ -9,6 +10,7 @@ import {
   mahalanobis2,
   principalSigmas,
   radius95,
+  RADIUS95_TABLE,
   radius95Factor,
   Z95_1D,
 } from "~/lib/geo/uncertainty";
@@ -34,6 +36,12 @@ describe("95% radius of an elliptical error", () => {
     expect(Z95_1D).toBeCloseTo(1.959964, 6);
     // Monotonic in between.
     for (let k = 0; k < 1; k += 0.05) expect(radius95Factor(k + 0.05)).toBeGreaterThanOrEqual(radius95Factor(k));
+  });
+
+  it("the built-in table is what the numerical integration gives", () => {
+    RADIUS95_TABLE.forEach((v, i) => {
+      expect(Math.abs(computeRadius95Factor(i / (RADIUS95_TABLE.length - 1)) - v)).toBeLessThan(2e-6);
+    });
   });
 
   it("holds 95% of simulated errors for an ellipse with axes 2:1", () => {
