@@ -26,6 +26,22 @@ export default [
   route("account/subscriptions", "routes/account.subscriptions.tsx"),
   route("staff/mail", "routes/staff.mail.tsx"),
 
+  // Aids register and discrepancy reports
+  route("report", "routes/report.tsx"),
+  route("reports/:id", "routes/reports.detail.tsx"),
+  route("account/reports", "routes/account.reports.tsx"),
+  route("staff/reports", "routes/staff.reports.tsx"),
+  route("staff/reports/aid/:aidId", "routes/staff.reports.aid.tsx"),
+  route("staff/aids", "routes/staff.aids.tsx"),
+  route("staff/aids.csv", "routes/staff.aids.csv.ts"),
+  route("staff/aids/import", "routes/staff.aids.import.tsx"),
+  route("staff/aids/:aidId", "routes/staff.aids.edit.tsx"),
+  route("photos/:id/:size", "routes/photos.ts"),
+  route("api/v1/aids", "routes/api.v1.aids.ts"),
+  route("api/v1/reports", "routes/api.v1.reports.ts"),
+  route("api/v1/uploads", "routes/api.v1.uploads.ts"),
+  route("api/v1/uploads/:id/complete", "routes/api.v1.uploads.complete.ts"),
+
   // Operations
   route("healthz", "routes/healthz.ts"),
 
