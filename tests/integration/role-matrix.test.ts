@@ -27,6 +27,21 @@ export const ACCESS: Record<string, Access> = {
   "routes/admin.users.tsx": { path: "/admin/users", loader: ["admin"], action: ["admin"] },
   "routes/healthz.ts": { path: "/healthz", loader: "public" },
   "routes/not-found.tsx": { path: "/no-such-page", loader: "public", action: "public" },
+  // Aids register and discrepancy reports (a missing id answers 404 to those allowed).
+  "routes/report.tsx": { path: "/report", loader: "public", action: "public" },
+  "routes/reports.detail.tsx": { path: "/reports/999999", params: { id: "999999" }, loader: "public" },
+  "routes/account.reports.tsx": { path: "/account/reports", loader: "signed-in" },
+  "routes/staff.reports.tsx": { path: "/staff/reports", loader: DRAFTERS, action: DRAFTERS },
+  "routes/staff.reports.aid.tsx": { path: "/staff/reports/aid/999999", params: { aidId: "999999" }, loader: DRAFTERS, action: DRAFTERS },
+  "routes/staff.aids.tsx": { path: "/staff/aids", loader: DRAFTERS },
+  "routes/staff.aids.csv.ts": { path: "/staff/aids.csv", loader: DRAFTERS },
+  "routes/staff.aids.import.tsx": { path: "/staff/aids/import", loader: DRAFTERS, action: DRAFTERS },
+  "routes/staff.aids.edit.tsx": { path: "/staff/aids/new", params: { aidId: "new" }, loader: DRAFTERS, action: DRAFTERS },
+  "routes/photos.ts": { path: "/photos/00000000-0000-4000-8000-000000000000/thumb", params: { id: "00000000-0000-4000-8000-000000000000", size: "thumb" }, loader: "public" },
+  "routes/api.v1.aids.ts": { path: "/api/v1/aids", loader: "public" },
+  "routes/api.v1.reports.ts": { path: "/api/v1/reports", loader: "public", action: "public" },
+  "routes/api.v1.uploads.ts": { path: "/api/v1/uploads", loader: "public", action: "public" },
+  "routes/api.v1.uploads.complete.ts": { path: "/api/v1/uploads/00000000-0000-4000-8000-000000000000/complete", params: { id: "00000000-0000-4000-8000-000000000000" }, action: "public" },
 };
 void DRAFTERS;
 
