@@ -322,6 +322,22 @@ export async function listInForce(harbourId?: number, db: Db = defaultDb, now = 
   return viewsFor((await q) as NoticeRow[], db, now);
 }
 
+/** Notices that ended (cancelled, superseded, expired) within the last `days`, newest first: the board shows them as ended. */
+export async function listRecentlyEnded(harbourId: number | undefined, days = 14, db: Db = defaultDb, now = new Date()): Promise<NoticeView[]> {
+  const from = new Date(now.getTime() - days * 86_400_000);
+  const q = baseSelect(db)
+    .where((b) =>
+      b
+        .where((c) => c.whereIn("n.status", ["cancelled", "superseded"]).where("n.cancelled_at", ">=", from))
+        .orWhere((c) => c.where("n.status", "expired").where("n.expired_at", ">=", from))
+        .orWhere((c) => c.where("n.status", "in_force").whereNotNull("n.valid_until").where("n.valid_until", "<=", now).where("n.valid_until", ">=", from)),
+    )
+    .orderBy("n.updated_at", "desc")
+    .limit(20);
+  if (harbourId) q.where("n.harbour_id", harbourId);
+  return viewsFor((await q) as NoticeRow[], db, now);
+}
+
 /** The SQL the API runs for a bbox query (used by the benchmark's bare baseline, too). */
 export function apiQuery(f: NoticeFilter & { afterId?: number; limit: number }, db: Db = defaultDb, now = new Date()) {
   const q = applyFilter(baseSelect(db), { ...f, status: f.status ?? "in_force" }, now, db);

@@ -1,28 +1,172 @@
-import { Link } from "react-router";
+// The public notice board: a map of the notices in force in the visible extent (fetched from
+// the API as the reader pans) and the list of everything in force, urgent first.
+import { useCallback, useMemo, useRef, useState } from "react";
+import { data, Link } from "react-router";
 import type { Route } from "./+types/home";
 import { Caution } from "~/components/Caution";
+import { MapView, type Bbox, type MapFeature } from "~/components/map/MapView";
+import { aidMapFeature, noticeMapFeature } from "~/components/notices/features";
+import { formatLocal } from "~/components/notices/format";
+import { NoticeTable } from "~/components/notices/NoticeTable";
+import { env } from "~/env.server";
+import { listAids } from "~/models/aid.server";
+import { getDefaultHarbour } from "~/models/harbour.server";
+import { lastPublicChange, listInForce, listRecentlyEnded } from "~/models/notice.server";
+import { getOptionalUser } from "~/services/auth.server";
+import { conditionalGet, forwardCacheHeaders, pageCacheHeaders } from "~/services/http-cache.server";
 
+export const middleware: Route.MiddlewareFunction[] = [conditionalGet];
+export const headers = forwardCacheHeaders;
 export const meta: Route.MetaFunction = () => [{ title: "Notice board · Tidewire · Kestrel Sound" }];
 
-export default function Home() {
+export async function loader({ request }: Route.LoaderArgs) {
+  // Public page: no guard. The signed-in user only changes the cache key.
+  const user = await getOptionalUser(request);
+  const harbour = await getDefaultHarbour();
+  const [inForce, ended, aids, lastChange] = await Promise.all([
+    listInForce(harbour?.id),
+    listRecentlyEnded(harbour?.id),
+    harbour ? listAids(harbour.id) : Promise.resolve([]),
+    lastPublicChange(),
+  ]);
+  const payload = {
+    harbourName: harbour?.name ?? "Kestrel Sound",
+    authorityName: harbour?.authorityName ?? "",
+    zone: harbour?.timeZone ?? "Europe/London",
+    basemap: harbour?.basemap ?? null,
+    tileUrl: env().MAP_TILE_URL ?? null,
+    inForce,
+    ended,
+    noticeFeatures: inForce.map((n) => noticeMapFeature(n)),
+    aidFeatures: aids.map(aidMapFeature),
+  };
+  return data(payload, {
+    headers: pageCacheHeaders(request, { lastChange, ids: inForce.map((n) => n.version + ":" + n.id), ended: ended.map((n) => n.id + n.effectiveStatus), aids: aids.map((a) => a.status) }, { lastModified: lastChange, userId: user?.id }),
+  });
+}
+
+type ApiFeature = { id: number; geometry: MapFeature["geometry"]; properties: { urgency: string; status: string; seriesNumber: string | null; title: string } };
+
+export default function Board({ loaderData }: Route.ComponentProps) {
+  const d = loaderData;
+  const [visible, setVisible] = useState<MapFeature[] | null>(null);
+  const request = useRef(0);
+  const onMoveEnd = useCallback((bbox: Bbox) => {
+    const mine = ++request.current;
+    fetch(`/api/v1/notices?bbox=${bbox.map((v) => v.toFixed(4)).join(",")}&limit=500`)
+      .then((r) => (r.ok ? r.json() : null))
+      .then((fc: { features: ApiFeature[] } | null) => {
+        if (!fc || mine !== request.current) return;
+        setVisible(
+          fc.features.map((f) => ({
+            type: "Feature",
+            id: f.id,
+            geometry: f.geometry,
+            properties: { symbol: "notice", urgency: f.properties.urgency, status: f.properties.status, label: f.properties.seriesNumber ?? "", title: f.properties.title, href: `/notices/${f.id}` },
+          })),
+        );
+      })
+      .catch(() => {});
+  }, []);
+  const layers = useMemo(
+    () => [
+      { id: "aids", features: d.aidFeatures },
+      { id: "notices", features: visible ?? d.noticeFeatures },
+    ],
+    [d.aidFeatures, d.noticeFeatures, visible],
+  );
+  const urgent = d.inForce.filter((n) => n.urgency === "urgent");
   return (
     <div className="space-y-6">
-      <h1 className="text-3xl font-bold">Kestrel Sound notice board</h1>
-      <p className="max-w-3xl text-lg">
-        Local navigational warnings of the Kestrel Sound Harbour Authority, reports of marks that are not where the chart
-        shows them, and alerts for the waters you use.
-      </p>
+      <div className="flex flex-wrap items-end justify-between gap-4">
+        <div>
+          <h1 className="text-3xl font-bold">{d.harbourName} notice board</h1>
+          <p className="mt-1 text-lg">
+            Local navigational warnings of the {d.authorityName}: {d.inForce.length} in force
+            {urgent.length ? (
+              <>
+                , <strong className="text-signal">{urgent.length} URGENT</strong>
+              </>
+            ) : null}
+            .
+          </p>
+        </div>
+        <p className="flex flex-wrap gap-2">
+          <Link to="/notices" className="btn-secondary">
+            All notices
+          </Link>
+          <Link to="/bulletin" className="btn-secondary">
+            Printable bulletin
+          </Link>
+          <Link to="/report" className="btn-secondary">
+            Report a mark out of position
+          </Link>
+          <Link to="/subscribe" className="btn-secondary">
+            Get alerts
+          </Link>
+        </p>
+      </div>
       <Caution />
-      <p className="flex flex-wrap gap-3">
-        <Link to="/notices" className="btn-primary">
+      {urgent.length ? (
+        <section aria-labelledby="urgent-heading" className="rounded-lg border-2 border-signal bg-signal-light p-4">
+          <h2 id="urgent-heading" className="text-lg font-bold text-signal">
+            ⚠ URGENT notices in force
+          </h2>
+          <ul className="mt-2 space-y-1">
+            {urgent.map((n) => (
+              <li key={n.id}>
+                <span className="badge bg-signal text-white">Urgent</span>{" "}
+                <Link to={`/notices/${n.id}`} className="font-semibold">
+                  {n.seriesNumber} {n.title}
+                </Link>
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
+      <MapView
+        ariaLabel="Map of the notices in force and the aids to navigation of the harbour. The same notices are listed in the table below."
+        basemap={d.basemap}
+        tileUrl={d.tileUrl}
+        layers={layers}
+        fit="layers"
+        onMoveEnd={onMoveEnd}
+        height="28rem"
+      />
+      <p className="text-xs text-slate">
+        Map symbols: diamonds and outlined areas are notices (orange with “!” = urgent); buoy symbols follow the IALA colours and shapes (region A). Click a
+        notice for its page.
+      </p>
+      <section aria-labelledby="inforce-heading">
+        <h2 id="inforce-heading" className="text-xl font-bold">
           Notices in force
-        </Link>
-        <Link to="/report" className="btn-secondary">
-          Report a mark out of position
-        </Link>
-        <Link to="/subscribe" className="btn-secondary">
-          Get alerts for your area
-        </Link>
+        </h2>
+        <div className="mt-2">
+          <NoticeTable notices={d.inForce} zone={d.zone} caption="Notices in force" />
+        </div>
+      </section>
+      {d.ended.length ? (
+        <section aria-labelledby="ended-heading">
+          <h2 id="ended-heading" className="text-xl font-bold">
+            Recently cancelled or ended
+          </h2>
+          <ul className="mt-2 space-y-1" data-testid="ended-list">
+            {d.ended.map((n) => (
+              <li key={n.id} data-notice-id={n.id}>
+                <span className="badge bg-mist text-slate">{n.effectiveStatus === "cancelled" ? "Cancelled" : n.effectiveStatus === "superseded" ? "Superseded" : "Expired"}</span>{" "}
+                <Link to={`/notices/${n.id}`}>
+                  {n.seriesNumber} {n.title}
+                </Link>{" "}
+                <span className="text-sm text-slate">
+                  {n.effectiveStatus === "expired" ? `ended ${formatLocal(n.validUntil, d.zone)}` : `${formatLocal(n.cancelledAt, d.zone)}${n.cancellationReason ? ` — ${n.cancellationReason}` : ""}`}
+                </span>
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
+      <p className="text-sm">
+        Also as an <a href="/feeds/notices.atom">Atom feed</a> and a <Link to="/feeds">GeoJSON API</Link>.
       </p>
     </div>
   );

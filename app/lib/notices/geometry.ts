@@ -141,9 +141,7 @@ export function buildPartGeometry(kind: PartKind, coordinates: LonLat[], radiusN
           if (samePoint(open[i]!, open[j]!)) return { ok: false, field: "positions", error: `Positions ${i + 1} and ${j + 1} of the area are the same` };
         }
       }
-      if (Math.abs(ringSignedArea2(open)) < 1e-14) return { ok: false, field: "positions", error: "The positions of the area lie on one line" };
-      const ring = closedCcwRing(open);
-      const crossings = kinks({ type: "Polygon", coordinates: [ring] });
+      const crossings = kinks({ type: "Polygon", coordinates: [[...open, open[0]!]] });
       if (crossings.features.length > 0) {
         const [x, y] = crossings.features[0]!.geometry.coordinates as LonLat;
         return {
@@ -152,7 +150,8 @@ export function buildPartGeometry(kind: PartKind, coordinates: LonLat[], radiusN
           error: `The area's edges cross each other (near ${y.toFixed(4)}°, ${x.toFixed(4)}°): list the corners in order around the area`,
         };
       }
-      return { ok: true, coordinates: open, geometry: { type: "Polygon", coordinates: [ring] } };
+      if (Math.abs(ringSignedArea2(open)) < 1e-14) return { ok: false, field: "positions", error: "The positions of the area lie on one line" };
+      return { ok: true, coordinates: open, geometry: { type: "Polygon", coordinates: [closedCcwRing(open)] } };
     }
   }
 }

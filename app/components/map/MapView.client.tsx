@@ -1,0 +1,275 @@
+// The OpenLayers side of MapView (see MapView.tsx for the props). Loaded lazily in the browser only.
+import "ol/ol.css";
+import OlMap from "ol/Map";
+import View from "ol/View";
+import type Feature from "ol/Feature";
+import type { FeatureLike } from "ol/Feature";
+import GeoJSON from "ol/format/GeoJSON";
+import type { Geometry } from "ol/geom";
+import type { Circle as OlCircle, LineString as OlLineString, Point as OlPoint, Polygon as OlPolygon } from "ol/geom";
+import Draw from "ol/interaction/Draw";
+import Graticule from "ol/layer/Graticule";
+import TileLayer from "ol/layer/Tile";
+import VectorLayer from "ol/layer/Vector";
+import { fromLonLat, toLonLat, transformExtent } from "ol/proj";
+import { getCenter, isEmpty } from "ol/extent";
+import VectorSource from "ol/source/Vector";
+import XYZ from "ol/source/XYZ";
+import { Circle as CircleStyle, Fill, Icon, Stroke, Style, Text } from "ol/style";
+import { useEffect, useRef } from "react";
+import { inverse } from "~/lib/geo/geodesy";
+import { circleRing } from "~/lib/notices/geometry";
+import type { Bbox, LonLat, MapFeature, MapViewProps } from "./MapView";
+import { aidSymbol, NOTICE_COLOURS, noticePointSymbol, svgDataUri } from "./symbols";
+
+const geojson = new GeoJSON({ dataProjection: "EPSG:4326", featureProjection: "EPSG:3857" });
+
+const BASEMAP_STYLES: Record<string, Style> = {
+  land: new Style({ fill: new Fill({ color: "#efe6cf" }), stroke: new Stroke({ color: "#8a7a55", width: 1 }) }),
+  basin: new Style({ fill: new Fill({ color: "#cfe6ee" }), stroke: new Stroke({ color: "#6f8f99", width: 1 }) }),
+  breakwater: new Style({ stroke: new Stroke({ color: "#4a4a4a", width: 4 }) }),
+  shoal: new Style({ fill: new Fill({ color: "rgba(120,170,200,0.35)" }), stroke: new Stroke({ color: "#3d7ea6", width: 1, lineDash: [2, 3] }) }),
+};
+
+const iconCache = new Map<string, Style>();
+function iconStyle(svg: string, scale = 1, anchorY = 1): Style {
+  const key = `${svg}|${scale}|${anchorY}`;
+  let s = iconCache.get(key);
+  if (!s) {
+    s = new Style({ image: new Icon({ src: svgDataUri(svg), scale, anchor: [0.5, anchorY] }) });
+    iconCache.set(key, s);
+  }
+  return s;
+}
+
+function label(text: unknown, offsetY = 14): Style | null {
+  if (typeof text !== "string" || !text) return null;
+  return new Style({
+    text: new Text({
+      text,
+      offsetY,
+      font: "600 12px 'Public Sans', sans-serif",
+      fill: new Fill({ color: "#0f2530" }),
+      stroke: new Stroke({ color: "rgba(255,255,255,0.9)", width: 3 }),
+    }),
+  });
+}
+
+function featureStyle(f: FeatureLike): Style | Style[] {
+  const p = f.getProperties() as Record<string, unknown>;
+  const symbol = String(p.symbol ?? "");
+  const styles: Style[] = [];
+  const geomType = f.getGeometry()?.getType();
+  switch (symbol) {
+    case "aid": {
+      styles.push(iconStyle(aidSymbol(p.ialaCategory as string | null, p.aidType as string | null), 0.9, p.ialaCategory ? 1 : 0.5));
+      if (p.status && p.status !== "operating") {
+        styles.push(new Style({ image: new CircleStyle({ radius: 13, stroke: new Stroke({ color: NOTICE_COLOURS.urgent, width: 2, lineDash: [3, 2] }) }) }));
+      }
+      const l = label(p.label, 12);
+      if (l) styles.push(l);
+      return styles;
+    }
+    case "notice": {
+      const ended = p.status !== undefined && p.status !== "in_force" && p.status !== "draft";
+      const urgent = p.urgency === "urgent";
+      const colour = ended ? NOTICE_COLOURS.ended : urgent ? NOTICE_COLOURS.urgent : NOTICE_COLOURS.routine;
+      if (geomType === "Point") styles.push(iconStyle(noticePointSymbol(urgent, ended), 1, 0.5));
+      else {
+        styles.push(
+          new Style({
+            stroke: new Stroke({ color: colour, width: urgent ? 3 : 2, lineDash: ended ? [6, 4] : undefined }),
+            fill: new Fill({ color: ended ? "rgba(107,119,128,0.12)" : urgent ? "rgba(180,65,11,0.18)" : "rgba(11,79,108,0.15)" }),
+          }),
+        );
+      }
+      const l = label(p.label, geomType === "Point" ? 20 : 0);
+      if (l) styles.push(l);
+      return styles;
+    }
+    case "circle":
+    case "area":
+      styles.push(new Style({ stroke: new Stroke({ color: String(p.stroke ?? "#1b7f93"), width: 2 }), fill: new Fill({ color: String(p.fill ?? "rgba(27,127,147,0.12)") }) }));
+      break;
+    case "uncertainty":
+      styles.push(new Style({ stroke: new Stroke({ color: String(p.stroke ?? "#b4410b"), width: 2, lineDash: [5, 4] }), fill: new Fill({ color: String(p.fill ?? "rgba(180,65,11,0.08)") }) }));
+      break;
+    case "observed":
+      styles.push(
+        new Style({
+          image: new CircleStyle({ radius: 6, stroke: new Stroke({ color: "#b4410b", width: 2.5 }), fill: new Fill({ color: "rgba(255,255,255,0.8)" }) }),
+        }),
+      );
+      break;
+    case "draft":
+      styles.push(
+        new Style({
+          stroke: new Stroke({ color: NOTICE_COLOURS.draft, width: 2.5, lineDash: [6, 4] }),
+          fill: new Fill({ color: "rgba(27,127,147,0.15)" }),
+          image: new CircleStyle({ radius: 6, fill: new Fill({ color: NOTICE_COLOURS.draft }), stroke: new Stroke({ color: "#fff", width: 2 }) }),
+        }),
+      );
+      break;
+    default:
+      styles.push(new Style({ stroke: new Stroke({ color: "#0b4f6c", width: 2 }), image: new CircleStyle({ radius: 5, fill: new Fill({ color: "#0b4f6c" }) }) }));
+  }
+  const l = label(p.label, geomType === "Point" ? 16 : 0);
+  if (l) styles.push(l);
+  return styles;
+}
+
+/** Circles and uncertainty circles arrive as a centre and a radius: draw them geodesically. */
+function expand(features: MapFeature[]): MapFeature[] {
+  return features.map((f) => {
+    const radiusM = Number(f.properties.radiusM);
+    if ((f.properties.symbol === "circle" || f.properties.symbol === "uncertainty") && f.geometry?.type === "Point" && radiusM > 0) {
+      return { ...f, geometry: { type: "Polygon", coordinates: [circleRing(f.geometry.coordinates, radiusM / 1852)] } };
+    }
+    return f;
+  });
+}
+
+function readFeatures(features: MapFeature[]): Feature<Geometry>[] {
+  return geojson.readFeatures({ type: "FeatureCollection", features: expand(features).filter((f) => f.geometry) }) as Feature<Geometry>[];
+}
+
+function visibleBbox(map: OlMap): Bbox | null {
+  const size = map.getSize();
+  if (!size) return null;
+  const e = transformExtent(map.getView().calculateExtent(size), "EPSG:3857", "EPSG:4326");
+  const clamp = (v: number, m: number) => Math.max(-m, Math.min(m, v));
+  return [clamp(e[0]!, 180), clamp(e[1]!, 85), clamp(e[2]!, 180), clamp(e[3]!, 85)];
+}
+
+// DDM labels on the graticule, as mariners read a chart border.
+const ddm = (v: number, pos: string, neg: string) => {
+  const a = Math.abs(v);
+  const d = Math.floor(a + 1e-9);
+  const m = (a - d) * 60;
+  return `${d}°${m.toFixed(m % 1 < 0.01 || m % 1 > 0.99 ? 0 : 1).padStart(2, "0")}′${v >= 0 ? pos : neg}`;
+};
+
+export default function MapViewClient(props: MapViewProps) {
+  const target = useRef<HTMLDivElement>(null);
+  const mapRef = useRef<OlMap | null>(null);
+  const layerSource = useRef(new VectorSource());
+  const baseSource = useRef(new VectorSource());
+  const drawRef = useRef<Draw | null>(null);
+  const handlers = useRef(props);
+  handlers.current = props;
+
+  // Create the map once.
+  useEffect(() => {
+    if (!target.current) return;
+    const layers = [];
+    if (props.tileUrl) layers.push(new TileLayer({ source: new XYZ({ url: props.tileUrl, crossOrigin: "anonymous" }) }));
+    layers.push(
+      new VectorLayer({
+        source: baseSource.current,
+        style: (f) => BASEMAP_STYLES[String(f.get("kind"))] ?? BASEMAP_STYLES.land!,
+      }),
+      new Graticule({
+        strokeStyle: new Stroke({ color: "rgba(15,37,48,0.25)", width: 1, lineDash: [2, 4] }),
+        showLabels: true,
+        wrapX: false,
+        lonLabelFormatter: (lon: number) => ddm(lon, "E", "W"),
+        latLabelFormatter: (lat: number) => ddm(lat, "N", "S"),
+        intervals: [10, 5, 2, 1, 0.5, 0.2, 1 / 12, 1 / 30, 1 / 60],
+      }),
+      new VectorLayer({ source: layerSource.current, style: featureStyle }),
+    );
+    const map = new OlMap({ target: target.current, layers, view: new View({ center: fromLonLat([3.04, 55.21]), zoom: 12, maxZoom: 19 }) });
+    map.on("moveend", () => {
+      const bbox = visibleBbox(map);
+      if (bbox) handlers.current.onMoveEnd?.(bbox);
+    });
+    map.on("singleclick", (evt) => {
+      if (drawRef.current) return;
+      const f = map.forEachFeatureAtPixel(evt.pixel, (feat) => feat, { layerFilter: (l) => l.getSource() === layerSource.current });
+      if (!f) return;
+      const p = f.getProperties();
+      if (handlers.current.onFeatureClick) handlers.current.onFeatureClick(p);
+      else if (typeof p.href === "string") window.location.assign(p.href);
+    });
+    map.on("pointermove", (evt) => {
+      const hit = map.hasFeatureAtPixel(evt.pixel, { layerFilter: (l) => l.getSource() === layerSource.current });
+      const el = map.getTargetElement();
+      if (el) el.style.cursor = hit ? "pointer" : "";
+    });
+    mapRef.current = map;
+    return () => {
+      map.setTarget(undefined);
+      mapRef.current = null;
+    };
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, []);
+
+  // Base map.
+  useEffect(() => {
+    baseSource.current.clear();
+    if (props.basemap) baseSource.current.addFeatures(geojson.readFeatures(props.basemap) as Feature<Geometry>[]);
+  }, [props.basemap]);
+
+  // Layers.
+  useEffect(() => {
+    layerSource.current.clear();
+    layerSource.current.addFeatures(readFeatures((props.layers ?? []).flatMap((l) => l.features)));
+  }, [props.layers]);
+
+  // Fit once (and again when fitKey changes).
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!map) return;
+    let extent: number[] | null = null;
+    if (Array.isArray(props.fit)) extent = transformExtent(props.fit, "EPSG:4326", "EPSG:3857");
+    else {
+      const e = layerSource.current.getExtent();
+      extent = e && !isEmpty(e) && Number.isFinite(e[0]) ? e : baseSource.current.getExtent();
+    }
+    if (!extent || isEmpty(extent) || !Number.isFinite(extent[0])) return;
+    if (extent[2]! - extent[0]! < 1 && extent[3]! - extent[1]! < 1) {
+      map.getView().setCenter(getCenter(extent));
+      map.getView().setZoom(14);
+    } else map.getView().fit(extent, { padding: [30, 30, 30, 30], maxZoom: 15 });
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [props.fitKey, Array.isArray(props.fit) ? props.fit.join(",") : props.fit]);
+
+  // Drawing.
+  const mode = props.draw?.mode ?? null;
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!map) return;
+    if (drawRef.current) {
+      map.removeInteraction(drawRef.current);
+      drawRef.current = null;
+    }
+    if (!mode) return;
+    const draw = new Draw({ source: new VectorSource(), type: mode });
+    draw.on("drawend", (e) => {
+      const g = e.feature.getGeometry();
+      const cb = handlers.current.draw?.onDrawEnd;
+      if (!g || !cb) return;
+      const ll = (c: number[]) => {
+        const [lon, lat] = toLonLat(c);
+        return [round(lon!), round(lat!)] as LonLat;
+      };
+      if (g.getType() === "Point") cb({ type: "Point", coordinates: ll((g as OlPoint).getCoordinates()) });
+      else if (g.getType() === "LineString") cb({ type: "LineString", coordinates: (g as OlLineString).getCoordinates().map(ll) });
+      else if (g.getType() === "Polygon") cb({ type: "Polygon", coordinates: (g as OlPolygon).getCoordinates().map((r) => r.map(ll)) });
+      else if (g.getType() === "Circle") {
+        const c = g as OlCircle;
+        const centre = ll(c.getCenter());
+        const edge = ll([c.getCenter()[0]! + c.getRadius(), c.getCenter()[1]!]);
+        cb({ type: "Circle", centre, radiusM: inverse(centre[1], centre[0], edge[1], edge[0]).distanceM });
+      }
+    });
+    map.addInteraction(draw);
+    drawRef.current = draw;
+  }, [mode]);
+
+  return <div ref={target} className="h-full w-full" />;
+}
+
+function round(v: number): number {
+  return Math.round(v * 1e6) / 1e6;
+}

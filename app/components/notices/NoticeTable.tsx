@@ -1,0 +1,90 @@
+import { Link } from "react-router";
+import type { NoticeView } from "~/lib/notices/types";
+import { generalTypeLabel } from "~/lib/notices/vocabulary";
+import { formatLocal } from "./format";
+import { NoticeBadges } from "./NoticeBadges";
+
+type Col = { key: string; label: string; sortable?: boolean };
+const COLS: Col[] = [
+  { key: "number", label: "Number", sortable: true },
+  { key: "title", label: "Notice", sortable: true },
+  { key: "type", label: "Type", sortable: true },
+  { key: "urgency", label: "Urgency / status", sortable: true },
+  { key: "validFrom", label: "In force from", sortable: true },
+  { key: "validUntil", label: "Until", sortable: true },
+];
+
+/**
+ * The notices table. With `sortHref`, column headers are sort links (server-side sorting via
+ * search params, so it works without JavaScript).
+ */
+export function NoticeTable({
+  notices,
+  zone,
+  sort,
+  dir,
+  sortHref,
+  hrefFor = (n) => `/notices/${n.id}`,
+  caption,
+}: {
+  notices: NoticeView[];
+  zone: string;
+  sort?: string;
+  dir?: "asc" | "desc";
+  sortHref?: (key: string, dir: "asc" | "desc") => string;
+  hrefFor?: (n: NoticeView) => string;
+  caption: string;
+}) {
+  return (
+    <div className="overflow-x-auto">
+      <table className="min-w-full border-collapse bg-white text-sm" data-testid="notice-table">
+        <caption className="sr-only">{caption}</caption>
+        <thead>
+          <tr className="border-b-2 border-mist text-left">
+            {COLS.map((c) => {
+              const active = sort === c.key;
+              const nextDir = active && dir === "asc" ? "desc" : "asc";
+              return (
+                <th key={c.key} scope="col" className="px-3 py-2" aria-sort={active ? (dir === "asc" ? "ascending" : "descending") : undefined}>
+                  {sortHref && c.sortable ? (
+                    <Link to={sortHref(c.key, nextDir)} className="font-bold text-ink">
+                      {c.label} {active ? (dir === "asc" ? "▲" : "▼") : ""}
+                    </Link>
+                  ) : (
+                    c.label
+                  )}
+                </th>
+              );
+            })}
+          </tr>
+        </thead>
+        <tbody>
+          {notices.length === 0 ? (
+            <tr>
+              <td colSpan={COLS.length} className="px-3 py-4 text-slate">
+                No notices match.
+              </td>
+            </tr>
+          ) : null}
+          {notices.map((n) => (
+            <tr key={n.id} className={`border-b border-mist/70 align-top ${n.urgency === "urgent" && n.effectiveStatus === "in_force" ? "bg-signal-light" : ""}`} data-notice-id={n.id}>
+              <td className="position px-3 py-2 font-semibold">{n.seriesNumber ?? "Draft"}</td>
+              <td className="px-3 py-2">
+                <Link to={hrefFor(n)} className="font-semibold">
+                  {n.title}
+                </Link>
+                <div className="line-clamp-2 max-w-xl text-slate">{n.locality}</div>
+              </td>
+              <td className="px-3 py-2">{generalTypeLabel(n.generalType)}</td>
+              <td className="px-3 py-2">
+                <NoticeBadges status={n.effectiveStatus} urgency={n.urgency} />
+              </td>
+              <td className="px-3 py-2 whitespace-nowrap">{formatLocal(n.validFrom, zone)}</td>
+              <td className="px-3 py-2 whitespace-nowrap">{n.validUntil ? formatLocal(n.validUntil, zone) : "Until further notice"}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
