@@ -17,6 +17,19 @@ export default [
   route("staff", "routes/staff.tsx"),
   ...prefix("admin", [route("users", "routes/admin.users.tsx")]),
 
+  // Notices (local navigational warnings): board, list, pages, bulletin, feeds, API, staff editor
+  route("notices", "routes/notices.tsx"),
+  route("notices/:id", "routes/notices.id.tsx"),
+  route("notices/:id/gpx", "routes/notices.gpx.ts"),
+  route("bulletin", "routes/bulletin.tsx"),
+  route("feeds", "routes/feeds.tsx"),
+  route("feeds/notices.atom", "routes/feeds.notices.atom.ts"),
+  route("api/v1/notices", "routes/api.v1.notices.ts"),
+  route("api/v1/notices/:id", "routes/api.v1.notices.id.ts"),
+  route("staff/notices", "routes/staff.notices.tsx"),
+  route("staff/notices/new", "routes/staff.notices.new.tsx"),
+  route("staff/notices/:id/edit", "routes/staff.notices.edit.tsx"),
+
   // Subscriptions (alerts and digests by e-mail)
   route("subscribe", "routes/subscribe.tsx"),
   route("subscribe/sent", "routes/subscribe.sent.tsx"),
