@@ -7,6 +7,7 @@ import { AID_STATUS_LABELS, type AidStatus } from "~/lib/aids/iala";
 import type { AssessmentResponse, Verdict } from "~/lib/geo/assessment";
 import { formatPosition } from "~/lib/geo/positions";
 import { escapeHtml, mailLayout } from "~/lib/mail-layout";
+import { formatSeriesNumber } from "~/lib/notices/vocabulary";
 import { canTransition, REPORT_STATUS_LABELS, VERDICT_LABELS, type ReportStatus } from "~/lib/reports/schema";
 import { setAidStatus } from "./aid.server";
 import { enqueueMail } from "./outbox.server";
@@ -371,6 +372,36 @@ export async function closeReportsForNotice(noticeId: number, actorUserId: numbe
     if (!canTransition(r.status, "closed")) continue;
     await applyStatusChange(r.id, { to: "closed", actorUserId, closedReason: "notice", noticeId }, trx);
     n++;
+  }
+  return n;
+}
+
+/**
+ * Reports linked to a notice that has since been published are closed "by a notice": an open
+ * report (new, acknowledged) is first confirmed — the harbour published a warning about it —
+ * then closed, each step with its event and mail. Run by the worker (and the triage pages), so
+ * it needs no hook inside the notices model's transaction.
+ */
+export async function closeReportsOfPublishedNotices(db = defaultDb): Promise<number> {
+  const rows = (await db("notice_reports as nr")
+    .join("reports as r", "r.id", "nr.report_id")
+    .join("notices as n", "n.id", "nr.notice_id")
+    .whereNotNull("n.published_at")
+    .whereNotIn("r.status", ["closed", "duplicate"])
+    .select("r.id", "r.status", "n.id as notice_id", "n.series_code", "n.year", "n.number", "n.published_by")
+    .limit(100)) as { id: number; status: ReportStatus; notice_id: number; series_code: string; year: number; number: number; published_by: number | null }[];
+  let n = 0;
+  for (const r of rows) {
+    const ref = formatSeriesNumber(r.series_code, r.year, r.number);
+    await db.transaction(async (trx) => {
+      const fresh = await trx("reports").select("status").where({ id: r.id }).forUpdate().first();
+      if (!fresh || fresh.status === "closed" || fresh.status === "duplicate") return;
+      if (fresh.status === "new" || fresh.status === "acknowledged") {
+        await applyStatusChange(r.id, { to: "confirmed", actorUserId: r.published_by, note: `Confirmed by navigational warning ${ref}`, aidStatus: "off_station" }, trx);
+      }
+      await applyStatusChange(r.id, { to: "closed", actorUserId: r.published_by, closedReason: "notice", noticeId: r.notice_id, note: `Navigational warning ${ref} published` }, trx);
+      n++;
+    });
   }
   return n;
 }

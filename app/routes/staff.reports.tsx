@@ -4,7 +4,7 @@ import { Caution } from "~/components/Caution";
 import { VerdictBadge } from "~/components/reports/AssessmentSummary";
 import { TriageActions } from "~/components/reports/TriageActions";
 import { REPORT_STATUS_LABELS } from "~/lib/reports/schema";
-import { triageQueue } from "~/models/report.server";
+import { closeReportsOfPublishedNotices, triageQueue } from "~/models/report.server";
 import { requireCapability } from "~/services/auth.server";
 import { handleTriageAction, type TriageActionData } from "~/services/triage.server";
 
@@ -12,6 +12,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Report triage · Tidewi
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCapability(request, "report:triage");
+  await closeReportsOfPublishedNotices(); // the worker does this too; the queue must not lag behind it
   const all = new URL(request.url).searchParams.get("show") === "all";
   const reports = await triageQueue({ includeClosed: all });
   const now = Date.now();

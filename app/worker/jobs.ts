@@ -4,6 +4,8 @@ import { lapseUnconfirmed } from "~/models/subscription.server";
 import { runDigestBatch } from "~/services/digests.server";
 import { expireDueNotices } from "~/models/notice.server";
 import { runOutboxOnce } from "./outbox";
+import { cleanupExpiredUploads } from "~/models/photo.server";
+import { closeReportsOfPublishedNotices } from "~/models/report.server";
 
 export type WorkerJob = { name: string; everyMs: number; run: (ctx: { workerId: string }) => Promise<number> };
 
@@ -24,4 +26,8 @@ export const jobs: WorkerJob[] = [
   { name: "digests", everyMs: num(process.env.DIGEST_POLL_MS, 30_000), run: () => runDigestBatch() },
   { name: "expire-notices", everyMs: num(process.env.EXPIRY_POLL_MS, 15_000), run: () => expireDueNotices() },
   { name: "lapse-unconfirmed-subscriptions", everyMs: 10 * 60_000, run: () => lapseUnconfirmed() },
+  // Photos uploaded but never attached to a report (abandoned forms, failed submits).
+  { name: "cleanup-uploads", everyMs: num(process.env.UPLOAD_CLEANUP_MS, 10 * 60_000), run: async () => (await cleanupExpiredUploads()).removed },
+  // Reports linked to a notice that has been published are closed by it (with the reporter's mail).
+  { name: "close-reports-by-notice", everyMs: num(process.env.REPORT_SYNC_MS, 5_000), run: () => closeReportsOfPublishedNotices() },
 ];
