@@ -55,6 +55,11 @@ export default [
   route("api/v1/uploads", "routes/api.v1.uploads.ts"),
   route("api/v1/uploads/:id/complete", "routes/api.v1.uploads.complete.ts"),
 
+  // Position tools' JSON API (app/lib/geo)
+  route("api/v1/convert", "routes/api.v1.convert.ts"),
+  route("api/v1/measure", "routes/api.v1.measure.ts"),
+  route("api/v1/assessments", "routes/api.v1.assessments.ts"),
+
   // Operations
   route("healthz", "routes/healthz.ts"),
 

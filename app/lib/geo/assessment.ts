@@ -114,7 +114,8 @@ function nm(x: number): string {
 }
 
 function explain(v: Verdict, d: number, brg: number, S: number, U: number, n: number, disagreement: boolean, flagged: number): string {
-  const where = d < 0.05 ? "at the charted position" : `${m(d)} (${nm(d / 1852)}) ${formatBearingTrue(brg)} from the charted position`;
+  const inNm = d >= 0.005 * 1852 ? ` (${nm(d / 1852)})` : "";
+  const where = d < 0.05 ? "at the charted position" : `${m(d)}${inNm} ${formatBearingTrue(brg)} from the charted position`;
   const subject = n > 1 ? `The combined estimate from ${n} observations is` : "The observed position is";
   const left = flagged > 0 ? ` (${flagged} inconsistent observation${flagged > 1 ? "s" : ""} left out)` : "";
   if (disagreement) {

@@ -204,6 +204,17 @@ export function convert(from: CrsInput, to: CrsInput, coord: Coord, options: Con
   const t = resolveCrs(to, "to");
   const ft = transformationFor(f, options.fromTransformation, "fromTransformation");
   const tt = transformationFor(t, options.toTransformation, "toTransformation");
+  if (f.datum === t.datum && ft.id === tt.id) {
+    // Same datum: a projection (or none) only, no datum shift.
+    checkCoordKind(f, coord, field);
+    let geog: number[] = isGeographicCoord(coord) ? [coord.lon, coord.lat] : (projectionConverter(f).inverse([coord.easting, coord.northing]) as number[]);
+    finite(geog, f, field);
+    geog = [normaliseLon(geog[0]!), geog[1]!];
+    if (t.kind === "geographic") return { lat: geog[1]!, lon: geog[0]! };
+    const out = projectionConverter(t).forward(geog) as number[];
+    finite(out, t, field);
+    return { easting: out[0]!, northing: out[1]! };
+  }
   const g = toWgs84(f, coord, { transformation: ft.id, field });
   return fromWgs84(t, g.lat, g.lon, { transformation: tt.id, field });
 }
@@ -217,7 +228,8 @@ export function conversionInfo(from: CrsInput, to: CrsInput, options: ConvertOpt
   const t = resolveCrs(to, "to");
   const ft = transformationFor(f, options.fromTransformation, "fromTransformation");
   const tt = transformationFor(t, options.toTransformation, "toTransformation");
-  const used = [ft, tt].filter((x) => x.id !== "identity");
+  const sameDatum = f.datum === t.datum && ft.id === tt.id;
+  const used = sameDatum ? [] : [ft, tt].filter((x) => x.id !== "identity");
   const accuracyM = Math.sqrt(used.reduce((s, x) => s + x.accuracyM ** 2, 0));
   return {
     from: f,

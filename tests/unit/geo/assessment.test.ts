@@ -71,7 +71,7 @@ describe("verdicts (rule: off when d − U > S; within when d + U ≤ S; else in
     expect(r.displacement.bearingTrueDeg).toBeCloseTo(90, 3);
     expect(r.combinedUncertaintyM).toBeCloseTo(GNSS_U, 3);
     expect(r.explanation).toBe(
-      "The observed position is 5 m (0.00 M) 090°T from the charted position; even allowing for the 13 m uncertainty (95%) it lies within the 25 m swing circle, so the aid appears on station.",
+      "The observed position is 5 m 090°T from the charted position; even allowing for the 13 m uncertainty (95%) it lies within the 25 m swing circle, so the aid appears on station.",
     );
   });
 

@@ -245,6 +245,9 @@ describe("conversions", () => {
     expect(info.transformations.map((t) => t.id)).toEqual(["EPSG:1133", "EPSG:1314"]);
     expect(info.accuracyM).toBeCloseTo(Math.hypot(10, 2), 12);
     expect(conversionInfo(4326, 32631).transformations).toEqual([]);
+    // Same datum (OSGB36 geographic ↔ its grid): a projection only, no datum shift.
+    expect(conversionInfo("EPSG:4277", "EPSG:27700")).toMatchObject({ transformations: [], accuracyM: 0 });
+    expect(conversionInfo("EPSG:4230", "EPSG:23031", { toTransformation: "EPSG:1311" }).transformations.map((t) => t.id)).toEqual(["EPSG:1133", "EPSG:1311"]);
   });
 });
 
