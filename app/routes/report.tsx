@@ -1,10 +1,11 @@
-import { lazy, Suspense, useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { data, Form, useNavigation } from "react-router";
 import type { Route } from "./+types/report";
 import { Caution } from "~/components/Caution";
 import { Field, FormError, Select, TextArea } from "~/components/forms";
 import { PhotoUploader, type UploadedPhoto } from "~/components/reports/PhotoUploader";
 import { AssessmentSummary, type PreviewState } from "~/components/reports/AssessmentSummary";
+import { ReportMap } from "~/components/reports/ReportMap";
 import { IALA_CATEGORY_LABELS, type IalaCategory } from "~/lib/aids/iala";
 import { swingRadiusOf } from "~/lib/aids/schema";
 import { formatPosition } from "~/lib/geo/positions";
@@ -30,8 +31,6 @@ import { submitReport } from "~/services/report-submit.server";
 import { redirectWithToast } from "~/services/session.server";
 import { STORAGE_UNAVAILABLE_MESSAGE, StorageUnavailableError } from "~/services/storage.server";
 
-const ReportDiagram = lazy(() => import("~/components/map/report-diagram.client"));
-
 export const meta: Route.MetaFunction = () => [{ title: "Report an aid to navigation · Tidewire" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -50,6 +49,7 @@ export async function loader({ request }: Route.LoaderArgs) {
       code: a.code,
       name: a.name,
       category: a.ialaCategory,
+      aidType: a.aidType,
       status: a.status,
       lat: a.lat,
       lon: a.lon,
@@ -267,22 +267,17 @@ export default function ReportPage({ loaderData, actionData }: Route.ComponentPr
                 hint="e.g. a half-submerged container, a new shoal, a drifting mark. Its position comes from your observation below."
               />
             ) : null}
-            {hydrated ? (
-              <Suspense fallback={<div className="h-80 rounded-md border border-mist bg-tide-light" />}>
-                <ReportDiagram
-                  aids={aids}
-                  selectedAidId={aidId}
-                  onSelectAid={(id) => {
-                    setTarget("aid");
-                    setAidId(id);
-                  }}
-                  basemap={harbour.basemap}
-                  preview={target === "aid" ? diagramPreview : null}
-                  centre={aid ?? aids[0] ?? { lat: 55.2, lon: 3.03 }}
-                  label="Map of the aids; choose one by clicking it. After you enter an observation it shows the charted position (cross), the swing circle (green) and your observed position with its uncertainty circle (dashed)."
-                />
-              </Suspense>
-            ) : null}
+            <ReportMap
+              aids={aids}
+              selectedAidId={aidId}
+              onSelectAid={(id) => {
+                setTarget("aid");
+                setAidId(id);
+              }}
+              basemap={harbour.basemap}
+              diagram={target === "aid" ? diagramPreview : null}
+              ariaLabel="Map of the aids; choose one by clicking it. After you enter an observation it shows the swing circle around the charted position and your observed position with its 95% uncertainty circle (dashed). The same figures are in the preview panel."
+            />
           </fieldset>
 
           <fieldset className="card grid gap-4">

@@ -1,8 +1,8 @@
-import { lazy, Suspense, useEffect, useState } from "react";
 import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/staff.reports.aid";
 import { Caution } from "~/components/Caution";
 import { AssessmentFigures, VerdictBadge } from "~/components/reports/AssessmentSummary";
+import { ReportMap } from "~/components/reports/ReportMap";
 import { TriageActions } from "~/components/reports/TriageActions";
 import { AID_STATUS_LABELS, IALA_CATEGORY_LABELS } from "~/lib/aids/iala";
 import { formatPosition } from "~/lib/geo/positions";
@@ -15,8 +15,6 @@ import { reportsOfAid } from "~/models/report.server";
 import { requireCapability } from "~/services/auth.server";
 import { combinedAssessment } from "~/services/report-notice.server";
 import { handleTriageAction, type TriageActionData } from "~/services/triage.server";
-
-const ReportDiagram = lazy(() => import("~/components/map/report-diagram.client"));
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Reports of ${data?.aid.code ?? "aid"} · Tidewire` }];
 
@@ -48,7 +46,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       lon: aid.lon,
       swingRadiusM: aidSwingRadiusM(aid),
     },
-    aids: aids.map((a) => ({ id: a.id, code: a.code, lat: a.lat, lon: a.lon, category: a.ialaCategory, status: a.status })),
+    aids: aids.map((a) => ({ id: a.id, code: a.code, lat: a.lat, lon: a.lon, category: a.ialaCategory, aidType: a.aidType, status: a.status })),
     combined,
     activeIds: active.map((r) => r.id),
     reports: reports.map((r) => {
@@ -87,8 +85,6 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function AidReports({ loaderData, actionData }: Route.ComponentProps) {
   const { aid, reports, combined, activeIds, aids, basemap, timeZone } = loaderData;
   const failure = actionData as TriageActionData | undefined;
-  const [hydrated, setHydrated] = useState(false);
-  useEffect(() => setHydrated(true), []);
   const active = reports.filter((r) => activeIds.includes(r.id));
   return (
     <div>
@@ -109,27 +105,23 @@ export default function AidReports({ loaderData, actionData }: Route.ComponentPr
       </div>
       <div className="mt-6 grid gap-6 lg:grid-cols-[1fr_24rem]">
         <section>
-          {hydrated ? (
-            <Suspense fallback={<div className="h-80 rounded-md border border-mist bg-tide-light" />}>
-              <ReportDiagram
-                aids={aids}
-                selectedAidId={aid.id}
-                basemap={basemap}
-                centre={aid}
-                preview={
-                  combined
-                    ? {
-                        charted: combined.charted,
-                        swingRadiusM: combined.swingRadiusM,
-                        observations: combined.observations.map((o) => ({ lat: o.lat, lon: o.lon, uncertaintyM: o.uncertaintyM, consistent: o.consistent })),
-                        estimate: combined.estimate,
-                      }
-                    : null
-                }
-                label={`Charted position of ${aid.code}, its swing circle, each report's position with its uncertainty circle (outliers in amber) and the combined estimate (blue)`}
-              />
-            </Suspense>
-          ) : null}
+          <ReportMap
+            aids={aids}
+            selectedAidId={aid.id}
+            basemap={basemap}
+            height="24rem"
+            diagram={
+              combined
+                ? {
+                    charted: combined.charted,
+                    swingRadiusM: combined.swingRadiusM,
+                    observations: combined.observations.map((o, i) => ({ lat: o.lat, lon: o.lon, uncertaintyM: o.uncertaintyM, consistent: o.consistent, label: `${active[i]?.reference ?? i + 1}${o.consistent ? "" : " (outlier)"}` })),
+                    estimate: combined.estimate,
+                  }
+                : null
+            }
+            ariaLabel={`Charted position of ${aid.code} with its swing circle, each report's position with its uncertainty circle and the combined estimate; the same figures are in the table below`}
+          />
         </section>
         <section className="card" data-testid="combined-estimate">
           <h2 className="text-lg font-bold">Combined estimate</h2>
@@ -235,7 +227,7 @@ export default function AidReports({ loaderData, actionData }: Route.ComponentPr
                 {r.duplicateOfId ? <div className="text-xs">of R-{String(r.duplicateOfId).padStart(4, "0")}</div> : null}
                 {r.noticeId ? (
                   <div className="text-xs">
-                    <Link to={`/staff/notices/${r.noticeId}`} className="underline">
+                    <Link to={`/staff/notices/${r.noticeId}/edit`} className="underline">
                       notice
                     </Link>
                   </div>

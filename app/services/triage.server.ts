@@ -45,7 +45,7 @@ export async function handleTriageAction(request: Request, user: User, back: str
   try {
     if (v.intent === "draft-notice") {
       const { noticeId } = await draftNoticeFromReports(v.aidId, v.reportIds, user);
-      return redirectWithToast(request, `/staff/notices/${noticeId}`, { kind: "success", message: "Draft notice created from the reports: check it and send it for publication." });
+      return redirectWithToast(request, `/staff/notices/${noticeId}/edit`, { kind: "success", message: "Draft notice created from the reports: check it and send it for publication." });
     }
     await changeReportStatus(v.reportId, {
       to: v.to,
