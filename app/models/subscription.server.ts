@@ -4,6 +4,7 @@ import { areaText, prefilterGeometry, type SubscriptionArea } from "~/lib/subscr
 import { bboxOfPoints, noticeBBox, subscriptionMatchesNotice, type BBox, type NoticePartShape, type NoticeShape } from "~/lib/subscriptions/matching";
 import { nextDigestAt, type DigestCadence, type DigestSchedule } from "~/lib/subscriptions/schedule";
 import type { DigestNotice } from "~/lib/subscriptions/digest";
+import { formatSeriesNumber } from "~/lib/notices/vocabulary";
 
 export type SubscriptionStatus = "pending" | "confirmed" | "ended";
 
@@ -215,17 +216,18 @@ export type NoticeForMail = NoticeShape &
     locality: string;
     validFrom: Date;
     cancellationReason: string | null;
+    updatedAt: Date;
   };
 
 export function seriesNumberOf(r: { series_code: string | null; year: number | null; number: number | null }): string | null {
-  return r.series_code && r.year && r.number ? `${r.series_code} ${r.year}/${String(r.number).padStart(3, "0")}` : null;
+  return r.series_code && r.year && r.number ? formatSeriesNumber(r.series_code, r.year, r.number) : null;
 }
 
 export async function loadNoticesForMail(ids: number[], db: Db = defaultDb): Promise<Map<number, NoticeForMail>> {
   const out = new Map<number, NoticeForMail>();
   if (ids.length === 0) return out;
   const rows = await db("notices")
-    .select("id", "harbour_id", "series_code", "year", "number", "title", "general_type", "urgency", "status", "version", "body", "locality", "valid_from", "valid_until", "cancellation_reason")
+    .select("id", "harbour_id", "series_code", "year", "number", "title", "general_type", "urgency", "status", "version", "body", "locality", "valid_from", "valid_until", "cancellation_reason", "updated_at")
     .whereIn("id", ids);
   const parts = await db("notice_parts").select("notice_id", "kind", "radius_nm", "coordinates_json").whereIn("notice_id", ids).orderBy(["notice_id", "seq"]);
   const partsBy = new Map<number, NoticePartShape[]>();
@@ -249,6 +251,7 @@ export async function loadNoticesForMail(ids: number[], db: Db = defaultDb): Pro
       validFrom: r.valid_from,
       validUntil: r.valid_until ?? null,
       cancellationReason: r.cancellation_reason ?? null,
+      updatedAt: r.updated_at,
       parts: partsBy.get(r.id) ?? [],
     });
   }

@@ -18,7 +18,8 @@ const ALERT_KINDS = new Set<NoticeEventKind>(["published", "amended", "cancelled
 export async function onNoticeEvent(trx: Knex.Transaction, event: { kind: NoticeEventKind; noticeId: number }): Promise<{ alerts: number }> {
   const notice = (await loadNoticesForMail([event.noticeId], trx)).get(event.noticeId);
   if (!notice) throw new Error(`onNoticeEvent: notice ${event.noticeId} not found`);
-  await trx("notice_changes").insert({ notice_id: notice.id, kind: event.kind, version: notice.version, occurred_at: new Date() });
+  // The change's own time (the notices model sets updated_at to it), so digests follow it.
+  await trx("notice_changes").insert({ notice_id: notice.id, kind: event.kind, version: notice.version, occurred_at: notice.updatedAt ?? new Date() });
   if (notice.urgency !== "urgent" || !ALERT_KINDS.has(event.kind)) return { alerts: 0 };
   const harbour = await getHarbourForMail(notice.harbourId, trx);
   if (!harbour) return { alerts: 0 };

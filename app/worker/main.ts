@@ -4,6 +4,7 @@
 import { hostname } from "node:os";
 import { jobs } from "./jobs";
 import { db } from "~/db.server";
+import { resetWorkerTransport } from "./transport";
 
 const workerId = `${hostname()}:${process.pid}`;
 const only = process.env.WORKER_JOBS?.split(",").map((s) => s.trim()).filter(Boolean);
@@ -33,7 +34,9 @@ async function loop() {
     }
   }
   await db.destroy();
+  resetWorkerTransport(); // pooled SMTP connections would keep the process alive
   console.log(`[worker ${workerId}] stopped`);
+  process.exit(0);
 }
 
 for (const signal of ["SIGINT", "SIGTERM"] as const) {

@@ -1,6 +1,6 @@
 import type { Transporter } from "nodemailer";
 import { claimBatch, markFailedAttempt, markSent, type OutboxRow } from "~/models/outbox.server";
-import { mailTransport } from "~/services/mail.server";
+import { sendWithDeadline } from "./transport";
 import { env } from "~/env.server";
 
 export const BATCH_SIZE = 20;
@@ -18,9 +18,9 @@ export function messageIdFor(idempotencyKey: string): string {
   return `<${idempotencyKey.replace(/[^A-Za-z0-9._-]/g, ".")}@tidewire.outbox>`;
 }
 
-async function deliver(row: OutboxRow, transport: Transporter) {
+async function deliver(row: OutboxRow, transport?: Transporter) {
   const headers = JSON.parse(row.headers || "{}") as Record<string, string>;
-  await transport.sendMail({
+  await sendWithDeadline({
     from: env().MAIL_FROM,
     to: row.to_address,
     subject: row.subject,
@@ -28,7 +28,7 @@ async function deliver(row: OutboxRow, transport: Transporter) {
     html: row.body_html ?? undefined,
     headers,
     messageId: messageIdFor(row.idempotency_key),
-  });
+  }, transport);
 }
 
 /**
@@ -38,7 +38,7 @@ async function deliver(row: OutboxRow, transport: Transporter) {
  */
 export async function runOutboxOnce(workerId: string, opts: OutboxOptions = {}): Promise<number> {
   const rows = await claimBatch(opts.batchSize ?? BATCH_SIZE, workerId, undefined, { leaseMs: opts.leaseMs });
-  const transport = opts.transport ?? mailTransport();
+  const transport = opts.transport;
   await Promise.all(
     rows.map(async (row) => {
       try {

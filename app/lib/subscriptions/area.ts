@@ -55,12 +55,12 @@ export function parsePolygon(text: string): SubscriptionArea {
   }
   if (pts.length < 3) throw new AreaError("A polygon needs at least three corners, one position per line.", "polygon");
   const ring = [...pts, pts[0]];
-  if (Math.abs(signedArea(ring)) < 1e-12) throw new AreaError("The corners lie on one line: the polygon has no area.", "polygon");
   const crossings = kinks({ type: "Feature", properties: {}, geometry: { type: "Polygon", coordinates: [ring] } });
   if (crossings.features.length > 0) {
     const [lon, lat] = crossings.features[0].geometry.coordinates;
-    throw new AreaError(`The polygon's edges cross each other near ${formatPosition(lat, lon, "ddm")}. List the corners in order around the area.`, "polygon");
+    throw new AreaError(`The polygon's edges cross each other near ${formatPosition(lat, lon, "ddm", { decimals: 2 })}. List the corners in order around the area.`, "polygon");
   }
+  if (Math.abs(signedArea(ring)) < 1e-12) throw new AreaError("The corners lie on one line: the polygon has no area.", "polygon");
   return { kind: "polygon", ring };
 }
 
@@ -107,13 +107,13 @@ export function prefilterGeometry(area: SubscriptionArea, harbourBoundary: unkno
 
 /** Text to refill the form: the centre or the corners as mariners write them. */
 export function areaText(area: SubscriptionArea): string | null {
-  if (area.kind === "circle") return formatPosition(area.centre.lat, area.centre.lon, "ddm");
-  if (area.kind === "polygon") return area.ring.slice(0, -1).map(([lon, lat]) => formatPosition(lat, lon, "ddm")).join("\n");
+  if (area.kind === "circle") return formatPosition(area.centre.lat, area.centre.lon, "ddm", { decimals: 2 });
+  if (area.kind === "polygon") return area.ring.slice(0, -1).map(([lon, lat]) => formatPosition(lat, lon, "ddm", { decimals: 2 })).join("\n");
   return null;
 }
 
 export function describeArea(area: SubscriptionArea, harbourName = "the harbour"): string {
   if (area.kind === "harbour") return `all of ${harbourName}`;
-  if (area.kind === "circle") return `${area.radiusNm} M around ${formatPosition(area.centre.lat, area.centre.lon, "ddm")}`;
+  if (area.kind === "circle") return `${area.radiusNm} M around ${formatPosition(area.centre.lat, area.centre.lon, "ddm", { decimals: 2 })}`;
   return `a polygon of ${area.ring.length - 1} corners`;
 }

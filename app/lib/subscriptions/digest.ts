@@ -29,7 +29,7 @@ export type DigestNotice = {
 export type DigestItem = { notice: DigestNotice; change: DigestChange; at: Date; positions: string[] };
 export type DigestGroup = { generalType: string; label: string; items: DigestItem[] };
 
-const pos = ([lon, lat]: LonLat) => formatPosition(lat, lon, "ddm");
+const pos = ([lon, lat]: LonLat) => formatPosition(lat, lon, "ddm", { decimals: 2 });
 const nm = (v: number) => String(Math.round(v * 100) / 100);
 
 /** Positions as mariners write them (degrees and decimal minutes). */

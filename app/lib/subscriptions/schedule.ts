@@ -36,14 +36,30 @@ export function checkLocalTimeExists(timeZone: string, localTime: string, from: 
     const day = start.plus({ days: i });
     const dt = DateTime.fromObject({ year: day.year, month: day.month, day: day.day, hour, minute }, { zone: timeZone });
     if (dt.hour !== hour || dt.minute !== minute) {
-      // luxon moves a non-existent time forward by the gap: the gap ends at dt's hour.
-      const before = dt.minus({ hours: 1 });
+      const gap = gapOn(day, timeZone);
       throw new ScheduleError(
-        `${localTime} does not exist in ${timeZone} on ${day.toFormat("cccc d LLLL yyyy")}: clocks go forward from ${before.toFormat("HH:00")} to ${dt.toFormat("HH:00")}. Choose a time outside that hour.`,
+        `${localTime} does not exist in ${timeZone} on ${day.toFormat("cccc d LLLL yyyy")}: clocks go forward from ${gap.start} to ${gap.end}. Choose a time outside that gap.`,
         "digestLocalTime",
       );
     }
   }
+}
+
+/** The wall-clock gap of a spring-forward day, found in 15-minute steps (zones shift by 30 or 60 min). */
+function gapOn(day: DateTime, timeZone: string): { start: string; end: string } {
+  const midnight = DateTime.fromObject({ year: day.year, month: day.month, day: day.day }, { zone: timeZone });
+  const endOfDay = midnight.plus({ hours: 26 });
+  const gapMinutes = endOfDay.offset - midnight.offset;
+  for (let m = 0; m < 24 * 60; m += 15) {
+    const hour = Math.floor(m / 60);
+    const minute = m % 60;
+    const dt = DateTime.fromObject({ year: day.year, month: day.month, day: day.day, hour, minute }, { zone: timeZone });
+    if (dt.hour !== hour || dt.minute !== minute) {
+      const fmt = (total: number) => `${String(Math.floor(total / 60) % 24).padStart(2, "0")}:${String(total % 60).padStart(2, "0")}`;
+      return { start: fmt(m), end: fmt(m + gapMinutes) };
+    }
+  }
+  return { start: "?", end: "?" };
 }
 
 /** Validates a schedule; throws ScheduleError naming the field. */
