@@ -16,7 +16,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return cachedResponse(request, JSON.stringify(feature), {
     contentType: "application/geo+json; charset=utf-8",
     lastModified: new Date(notice.updatedAt),
-    maxAgeS: 30,
+    maxAgeS: 10,
     extraHeaders: { "Access-Control-Allow-Origin": "*" },
   });
 }

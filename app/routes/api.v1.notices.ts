@@ -40,7 +40,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   return cachedResponse(request, JSON.stringify(body), {
     contentType: "application/geo+json; charset=utf-8",
     lastModified,
-    maxAgeS: 30,
+    maxAgeS: 10,
     extraHeaders: { "Access-Control-Allow-Origin": "*", ...(next ? { Link: `<${next}>; rel="next"` } : {}) },
   });
 }

@@ -16,7 +16,10 @@ export function weakTag(text: string): string {
 function cacheControl(request: Request, maxAgeS: number): string {
   // Signed-in readers see their name in the header: keep their pages out of shared caches.
   const personal = request.headers.get("Cookie")?.includes("tw_session=");
-  return personal ? "private, no-cache" : `public, max-age=${maxAgeS}, stale-while-revalidate=${maxAgeS * 5}`;
+  if (personal) return "private, no-cache";
+  // Safety information: pages revalidate every time (cheap with the ETag); resources may be
+  // reused for a few seconds.
+  return maxAgeS > 0 ? `public, max-age=${maxAgeS}, stale-while-revalidate=${maxAgeS * 5}` : "public, no-cache";
 }
 
 function matches(ifNoneMatch: string | null, fingerprint: string): string | null {
@@ -57,7 +60,7 @@ export function cachedResponse(
 export function pageCacheHeaders(request: Request, fingerprintOf: unknown, opts: { lastModified?: Date | null; maxAgeS?: number; userId?: number | null } = {}) {
   const headers: Record<string, string> = {
     ETag: `W/"${weakTag(JSON.stringify(fingerprintOf) + "|" + (opts.userId ?? ""))}"`,
-    "Cache-Control": cacheControl(request, opts.maxAgeS ?? 30),
+    "Cache-Control": cacheControl(request, opts.maxAgeS ?? 0),
   };
   if (opts.lastModified) headers["Last-Modified"] = new Date(opts.lastModified).toUTCString();
   return headers;

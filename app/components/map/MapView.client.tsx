@@ -223,7 +223,8 @@ export default function MapViewClient(props: MapViewProps) {
     let extent: number[] | null = null;
     if (Array.isArray(props.fit)) extent = transformExtent(props.fit, "EPSG:4326", "EPSG:3857");
     else {
-      const e = layerSource.current.getExtent();
+      const only = props.fitLayerId ? props.layers?.find((l) => l.id === props.fitLayerId) : undefined;
+      const e = only && only.features.length ? new VectorSource({ features: readFeatures(only.features) }).getExtent() : layerSource.current.getExtent();
       extent = e && !isEmpty(e) && Number.isFinite(e[0]) ? e : baseSource.current.getExtent();
     }
     if (!extent || isEmpty(extent) || !Number.isFinite(extent[0])) return;

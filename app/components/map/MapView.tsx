@@ -22,6 +22,7 @@
  *   Optional properties.label is drawn beside the feature; properties.href makes it clickable.
  * - `fit`: "layers" (default: fit everything in `layers`, else the base map) or a bbox
  *   [minLon, minLat, maxLon, maxLat]. The view is fitted once, and again when `fitKey` changes.
+ *   `fitLayerId` fits to that one layer when it has features (e.g. the geometry being edited).
  * - `draw`: `{ mode: "Point" | "LineString" | "Polygon" | "Circle", onDrawEnd }` turns on
  *   drawing; onDrawEnd gets `{ type: "Point" | "LineString" | "Polygon", coordinates }` or
  *   `{ type: "Circle", centre, radiusM }` in WGS 84. `mode: null` turns drawing off.
@@ -51,6 +52,7 @@ export type MapViewProps = {
   layers?: MapLayer[];
   fit?: "layers" | Bbox;
   fitKey?: string | number;
+  fitLayerId?: string;
   draw?: { mode: DrawMode | null; onDrawEnd: (shape: DrawnShape) => void };
   onMoveEnd?: (bbox: Bbox) => void;
   onFeatureClick?: (properties: Record<string, unknown>) => void;

@@ -34,18 +34,18 @@ export function NoticeDetail({
           <NoticeBadges status={n.effectiveStatus} urgency={n.urgency} />
         </p>
         {n.effectiveStatus === "cancelled" ? (
-          <p className="mt-3 rounded bg-danger-light px-3 py-2 font-semibold text-danger" role="status">
+          <p className="mt-3 rounded bg-danger-light px-3 py-2 font-semibold text-danger" role="status" data-testid="notice-state">
             CANCELLED {formatLocal(n.cancelledAt, zone)}. Reason: {n.cancellationReason}
           </p>
         ) : null}
         {n.effectiveStatus === "superseded" ? (
-          <p className="mt-3 rounded bg-mist px-3 py-2 font-semibold" role="status">
+          <p className="mt-3 rounded bg-mist px-3 py-2 font-semibold" role="status" data-testid="notice-state">
             SUPERSEDED by{" "}
             <Link to={`/notices/${n.supersededByNoticeId}`}>{n.supersededBySeriesNumber ?? "a newer notice"}</Link> on {formatLocal(n.cancelledAt, zone)}.
           </p>
         ) : null}
         {n.effectiveStatus === "expired" ? (
-          <p className="mt-3 rounded bg-mist px-3 py-2 font-semibold" role="status">
+          <p className="mt-3 rounded bg-mist px-3 py-2 font-semibold" role="status" data-testid="notice-state">
             EXPIRED at its stated end, {formatLocal(n.validUntil, zone)}. Kept here for the record.
           </p>
         ) : null}

@@ -295,6 +295,7 @@ export function NoticeEditor({
             tileUrl={tileUrl}
             layers={layers}
             fit="layers"
+            fitLayerId="draft"
             fitKey={parts.map((p) => p.positions.length > 0).join()}
             draw={{ mode: drawIndex === null ? null : DRAW_MODE[parts[drawIndex]!.kind], onDrawEnd }}
             height="26rem"
