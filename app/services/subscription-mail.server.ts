@@ -57,7 +57,7 @@ export function confirmationMail(sub: Subscription, harbour: HarbourForMail): Ma
   const intro = `Please confirm that you want notices from ${harbour.authorityName} for ${describeArea(sub.area, harbour.name)}: ${what}.`;
   const outro = "The link expires in 72 hours. If you did not ask for this, ignore this message: nothing will be sent to you.";
   return {
-    subject: "Confirm your Kestrel Sound notices subscription",
+    subject: `Confirm your ${harbour.name} notices subscription`,
     text: `${intro}\n\nConfirm: ${url}\n\n${outro}\n\n— Tidewire, ${harbour.authorityName}`,
     html: mailLayout(
       "Confirm your subscription",
@@ -122,7 +122,7 @@ ${positions.length ? `<tr><td style="padding:2px 12px 2px 0;color:#4a5a66;vertic
 export function digestMail(sub: Subscription, harbour: HarbourForMail, items: DigestItem[], window: { from: Date; to: Date }): MailParts {
   const groups = groupDigest(items);
   const cadence = sub.digest.cadence === "weekly" ? "Weekly" : "Daily";
-  const subject = `${cadence} digest: ${items.length} change${items.length === 1 ? "" : "s"} to Kestrel Sound notices`;
+  const subject = `${cadence} digest: ${items.length} change${items.length === 1 ? "" : "s"} to ${harbour.name} notices`;
   const intro = `Changes to notices in your area from ${fmtUtc(window.from)} to ${fmtUtc(window.to)}.`;
   const textLines: string[] = [intro, ""];
   let html = `<p style="margin:0 0 16px">${escapeHtml(intro)}</p>`;
@@ -146,4 +146,4 @@ export function digestMail(sub: Subscription, harbour: HarbourForMail, items: Di
 }
 
 /** Position of a circle's centre for pages (re-exported for the routes). */
-export const ddm = (lat: number, lon: number) => formatPosition(lat, lon, "ddm");
+export const ddm = (lat: number, lon: number) => formatPosition(lat, lon, "ddm", { decimals: 2 });
