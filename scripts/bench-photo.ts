@@ -8,8 +8,8 @@ import { processPhoto } from "../app/services/photo-processing.server";
 const RUNS = Number(process.env.BENCH_RUNS ?? 7);
 
 async function phoneJpeg(): Promise<Buffer> {
-  // 4000 × 3000 = 12 MP of gaussian noise over a gradient: compresses like a busy photo (several MB).
-  const noise = await sharp({ create: { width: 4000, height: 3000, channels: 3, noise: { type: "gaussian", mean: 120, sigma: 40 } } })
+  // 4000 × 3000 = 12 MP of gaussian noise: compresses like a busy photo (several MB).
+  const noise = await sharp({ create: { width: 4000, height: 3000, channels: 3, background: "#000", noise: { type: "gaussian", mean: 120, sigma: 40 } } })
     .jpeg({ quality: 90 })
     .toBuffer();
   return sharp(noise)

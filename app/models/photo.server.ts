@@ -4,7 +4,7 @@
 import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
 import { db as defaultDb, type Db } from "~/db.server";
-import { processPhoto, type ProcessedPhoto } from "~/services/photo-processing.server";
+import { exifTimeToIso, PhotoRejectedError, processPhoto, type ProcessedPhoto } from "~/services/photo-processing.server";
 import { deleteObjects, getObject, headObject, presignPut, putObject, StorageUnavailableError } from "~/services/storage.server";
 
 /** Pending uploads live this long before cleanup (enough to finish filling in the form). */
@@ -90,7 +90,6 @@ export async function completePresignedUpload(id: string, timeZone: string, db: 
   if (row.state === "stored") return uploadOf(row);
   const obj = await getObject(row.incoming_key);
   if (!obj) throw new UploadProblem(`Upload ${id} has not been received: PUT the photo to its URL first`, id, 409);
-  const { PhotoRejectedError } = await import("~/services/photo-processing.server");
   let processed: ProcessedPhoto;
   try {
     processed = await processPhoto(obj.body, { name: `upload ${id.slice(0, 8)}`, timeZone });
@@ -225,4 +224,19 @@ export async function cleanupExpiredUploads(opts: { now?: Date; limit?: number }
     }
   });
   return { removed, failed };
+}
+
+/** The JSON answer for an upload (browser and API alike): sizes, EXIF hints, where to see it. */
+export function uploadBody(u: StoredUpload, zone: string) {
+  const m = /^(.{19})([+-]\d{2}:\d{2})?$/.exec(u.exif.takenAtRaw ?? "");
+  return {
+    id: u.id,
+    contentType: u.contentType,
+    bytes: u.bytes,
+    width: u.width,
+    height: u.height,
+    exif: { lat: u.exif.lat, lon: u.exif.lon, takenAt: m ? exifTimeToIso(m[1]!, m[2] ?? null, zone) : null },
+    thumbUrl: `/photos/${u.id}/thumb`,
+    publicUrl: `/photos/${u.id}/public`,
+  };
 }

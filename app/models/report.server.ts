@@ -383,13 +383,23 @@ export async function closeReportsForNotice(noticeId: number, actorUserId: numbe
  * it needs no hook inside the notices model's transaction.
  */
 export async function closeReportsOfPublishedNotices(db = defaultDb): Promise<number> {
-  const rows = (await db("notice_reports as nr")
+  type Row = { id: number; status: ReportStatus; notice_id: number; series_code: string; year: number; number: number; published_by: number | null };
+  const cols = ["r.id", "r.status", "n.id as notice_id", "n.series_code", "n.year", "n.number", "n.published_by"];
+  // Linked through the notice's own list (notice_reports) or by the draft made from the report.
+  const viaList = (await db("notice_reports as nr")
     .join("reports as r", "r.id", "nr.report_id")
     .join("notices as n", "n.id", "nr.notice_id")
     .whereNotNull("n.published_at")
     .whereNotIn("r.status", ["closed", "duplicate"])
-    .select("r.id", "r.status", "n.id as notice_id", "n.series_code", "n.year", "n.number", "n.published_by")
-    .limit(100)) as { id: number; status: ReportStatus; notice_id: number; series_code: string; year: number; number: number; published_by: number | null }[];
+    .select(cols)
+    .limit(100)) as Row[];
+  const viaDraft = (await db("reports as r")
+    .join("notices as n", "n.id", "r.notice_id")
+    .whereNotNull("n.published_at")
+    .whereNotIn("r.status", ["closed", "duplicate"])
+    .select(cols)
+    .limit(100)) as Row[];
+  const rows = [...new Map([...viaList, ...viaDraft].map((r) => [r.id, r])).values()];
   let n = 0;
   for (const r of rows) {
     const ref = formatSeriesNumber(r.series_code, r.year, r.number);

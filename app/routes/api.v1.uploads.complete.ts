@@ -3,9 +3,8 @@
 import type { Route } from "./+types/api.v1.uploads.complete";
 import { jsonError } from "~/lib/http";
 import { getDefaultHarbour } from "~/models/harbour.server";
-import { completePresignedUpload, UploadProblem } from "~/models/photo.server";
+import { completePresignedUpload, UploadProblem, uploadBody } from "~/models/photo.server";
 import { STORAGE_UNAVAILABLE_MESSAGE, StorageUnavailableError } from "~/services/storage.server";
-import { uploadBody } from "./api.v1.uploads";
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 

@@ -9,28 +9,14 @@ import { z } from "zod";
 import type { Route } from "./+types/api.v1.uploads";
 import { jsonError } from "~/lib/http";
 import { getDefaultHarbour } from "~/models/harbour.server";
-import { createPresignedUpload, storeProcessedPhoto, type StoredUpload } from "~/models/photo.server";
+import { createPresignedUpload, storeProcessedPhoto, uploadBody } from "~/models/photo.server";
 import { getOptionalUser } from "~/services/auth.server";
-import { exifTimeToIso, PhotoRejectedError, processPhoto } from "~/services/photo-processing.server";
+import { PhotoRejectedError, processPhoto } from "~/services/photo-processing.server";
 import { STORAGE_UNAVAILABLE_MESSAGE, StorageUnavailableError } from "~/services/storage.server";
 
 const presignSchema = z
   .object({ contentType: z.enum(["image/jpeg", "image/png", "image/webp"], { error: 'contentType must be "image/jpeg", "image/png" or "image/webp"' }) })
   .strict();
-
-export function uploadBody(u: StoredUpload, zone: string) {
-  const m = /^(.{19})([+-]\d{2}:\d{2})?$/.exec(u.exif.takenAtRaw ?? "");
-  return {
-    id: u.id,
-    contentType: u.contentType,
-    bytes: u.bytes,
-    width: u.width,
-    height: u.height,
-    exif: { lat: u.exif.lat, lon: u.exif.lon, takenAt: m ? exifTimeToIso(m[1]!, m[2] ?? null, zone) : null },
-    thumbUrl: `/photos/${u.id}/thumb`,
-    publicUrl: `/photos/${u.id}/public`,
-  };
-}
 
 export async function loader() {
   return jsonError("Send a photo with POST (multipart field \"photo\"), or POST JSON { contentType } for a presigned upload", undefined, 405, { Allow: "POST" });
