@@ -55,7 +55,8 @@ export default [
   route("api/v1/uploads", "routes/api.v1.uploads.ts"),
   route("api/v1/uploads/:id/complete", "routes/api.v1.uploads.complete.ts"),
 
-  // Position tools' JSON API (app/lib/geo)
+  // Position tools and their JSON API (app/lib/geo)
+  route("tools", "routes/tools.tsx"),
   route("api/v1/convert", "routes/api.v1.convert.ts"),
   route("api/v1/measure", "routes/api.v1.measure.ts"),
   route("api/v1/assessments", "routes/api.v1.assessments.ts"),

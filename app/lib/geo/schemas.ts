@@ -85,7 +85,13 @@ const compassSchema = z
     distanceM: positiveMetres("distanceM", 50_000),
     distanceUncertaintyM: positiveMetres("distanceUncertaintyM", 50_000).optional(),
     ownAccuracyM: positiveMetres("ownAccuracyM", 10_000).optional(),
-    observedAt,
+    observedAt: z.iso.datetime({
+      offset: true,
+      error: (iss) =>
+        iss.input === undefined
+          ? "Give observedAt, the date and time of the bearing: magnetic variation depends on it"
+          : "observedAt must be an ISO 8601 date-time with a time zone, e.g. 2026-11-20T14:05:00Z",
+    }),
   })
   .strict();
 

@@ -283,7 +283,7 @@ describe("rejections name the field", () => {
     expectError({ ...ok, observations: [{ ...radar, bearingRef: "magnetic" }] }, "observations.0.bearingRef", 'bearingRef must be "true" or "relative"');
     expectError({ ...ok, observations: [{ ...radar, rangeScaleNm: 0 }] }, "observations.0.rangeScaleNm", "rangeScaleNm must be greater than 0");
     const compass = { method: "compass", ownPosition: "55.19 3.0", bearingMagneticDeg: 95, distanceM: 300, observedAt: "2026-11-20T14:20:00Z" };
-    expectError({ ...ok, observations: [{ ...compass, observedAt: undefined }] }, "observations.0.observedAt", /observedAt must be an ISO 8601 date-time with a time zone/);
+    expectError({ ...ok, observations: [{ ...compass, observedAt: undefined }] }, "observations.0.observedAt", "Give observedAt, the date and time of the bearing: magnetic variation depends on it");
     expectError({ ...ok, observations: [{ ...compass, observedAt: "2026-11-20 14:20" }] }, "observations.0.observedAt", "observedAt must be an ISO 8601 date-time with a time zone, e.g. 2026-11-20T14:05:00Z");
     expectError(
       { ...ok, observations: [{ ...compass, observedAt: "2030-02-01T00:00:00Z" }] },
