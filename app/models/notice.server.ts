@@ -228,7 +228,23 @@ export type NoticeFilter = {
   updatedSince?: Date;
   /** Include drafts (staff lists only). */
   includeDrafts?: boolean;
+  /** Internal: ids found by the bbox step (see noticeIdsInBbox). */
+  bboxIds?: number[];
 };
+
+/**
+ * Step one of a bbox search: the ids of notices with a part whose MBR intersects the box, by
+ * MBRIntersects on the SPATIAL index of notice_parts.geom (in MariaDB only MBR* and
+ * ST_Intersects use it). Kept a statement of its own: MariaDB 10.11.18 fails the same
+ * predicate inside `id IN (subquery)`, EXISTS or a joined derived table once the plan scans
+ * notices in id order for ORDER BY … LIMIT (error 1207 "Update locks cannot be acquired during a
+ * READ UNCOMMITTED transaction", reproduced here).
+ */
+export async function noticeIdsInBbox(bbox: [number, number, number, number], db: Db = defaultDb): Promise<number[]> {
+  const [rows] = (await db.raw(BBOX_IDS_SQL, [bboxWkt(bbox)])) as [{ notice_id: number }[]];
+  return rows.map((r) => r.notice_id);
+}
+export const BBOX_IDS_SQL = "SELECT DISTINCT notice_id FROM notice_parts WHERE MBRIntersects(geom, ST_GeomFromText(?, 4326))";
 
 /** The bbox as a WGS 84 polygon WKT (X = longitude). */
 export function bboxWkt([minLon, minLat, maxLon, maxLat]: [number, number, number, number]): string {
@@ -270,10 +286,7 @@ function applyFilter(q: Knex.QueryBuilder, f: NoticeFilter, now: Date, db: Db) {
       if (m) b.orWhere((c) => c.where("n.year", Number(m[1])).where("n.number", Number(m[2])));
     });
   }
-  if (f.bbox) {
-    // MBRIntersects on the SPATIAL index of notice_parts.geom (MariaDB: only MBR*/ST_Intersects use it).
-    q.whereIn("n.id", db("notice_parts").select("notice_id").whereRaw("MBRIntersects(geom, ST_GeomFromText(?, 4326))", [bboxWkt(f.bbox)]));
-  }
+  if (f.bboxIds) q.whereIn("n.id", f.bboxIds.length ? f.bboxIds : [0]);
   return q;
 }
 
@@ -338,7 +351,7 @@ export async function listRecentlyEnded(harbourId: number | undefined, days = 14
   return viewsFor((await q) as NoticeRow[], db, now);
 }
 
-/** The SQL the API runs for a bbox query (used by the benchmark's bare baseline, too). */
+/** The main statement of an API page (after the bbox step); the benchmark's baseline runs the same SQL. */
 export function apiQuery(f: NoticeFilter & { afterId?: number; limit: number }, db: Db = defaultDb, now = new Date()) {
   const q = applyFilter(baseSelect(db), { ...f, status: f.status ?? "in_force" }, now, db);
   if (f.afterId) q.where("n.id", ">", f.afterId);
@@ -351,7 +364,9 @@ export async function listNoticesForApi(
   db: Db = defaultDb,
   now = new Date(),
 ): Promise<{ notices: NoticeView[]; nextAfterId: number | null }> {
-  const rows = (await apiQuery(f, db, now)) as NoticeRow[];
+  const bboxIds = f.bbox ? await noticeIdsInBbox(f.bbox, db) : undefined;
+  if (bboxIds && bboxIds.length === 0) return { notices: [], nextAfterId: null };
+  const rows = (await apiQuery({ ...f, bboxIds }, db, now)) as NoticeRow[];
   const more = rows.length > f.limit;
   const page = more ? rows.slice(0, f.limit) : rows;
   return { notices: await viewsFor(page, db, now), nextAfterId: more ? page[page.length - 1]!.id : null };
