@@ -1,6 +1,7 @@
-import { Link } from "react-router";
+import { Link, useNavigate } from "react-router";
 import type { Route } from "./+types/staff.aids";
 import { Caution } from "~/components/Caution";
+import { ReportMap } from "~/components/reports/ReportMap";
 import { AID_STATUS_LABELS, AID_TYPE_LABELS, IALA_CATEGORY_LABELS } from "~/lib/aids/iala";
 import { aidLight, aidSwingRadiusM, listAids } from "~/models/aid.server";
 import { getDefaultHarbour } from "~/models/harbour.server";
@@ -13,7 +14,12 @@ export async function loader({ request }: Route.LoaderArgs) {
   const harbour = await getDefaultHarbour();
   const aids = harbour ? await listAids(harbour.id, { includeWithdrawn: true }) : [];
   return {
+    basemap: harbour?.basemap ?? null,
     aids: aids.map((a) => ({
+      lat: a.lat,
+      lon: a.lon,
+      ialaCategory: a.ialaCategory,
+      aidType: a.aidType,
       id: a.id,
       code: a.code,
       name: a.name,
@@ -31,7 +37,8 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export default function AidsRegister({ loaderData }: Route.ComponentProps) {
-  const { aids } = loaderData;
+  const { aids, basemap } = loaderData;
+  const navigate = useNavigate();
   return (
     <div>
       <h1 className="text-2xl font-bold">Aids to navigation register</h1>
@@ -54,6 +61,17 @@ export default function AidsRegister({ loaderData }: Route.ComponentProps) {
       </div>
       <div className="mt-4">
         <Caution compact />
+      </div>
+      <div className="mt-4">
+        <ReportMap
+          aids={aids.map((a) => ({ id: a.id, code: a.code, lat: a.lat, lon: a.lon, category: a.ialaCategory, aidType: a.aidType, status: a.status }))}
+          selectedAidId={null}
+          onSelectAid={(id) => navigate(`/staff/aids/${id}`)}
+          basemap={basemap}
+          diagram={null}
+          height="22rem"
+          ariaLabel="Map of the aids in the register (the table below lists the same aids); click an aid to edit it. Aids not operating are ringed."
+        />
       </div>
       <table className="mt-6 w-full text-left text-sm" data-testid="aids-table">
         <thead>
