@@ -45,6 +45,22 @@ const ACCESS: Record<string, Access> = {
   "routes/admin.users.tsx": { path: "/admin/users", loader: ADMINS, action: ADMINS },
   "routes/healthz.ts": { path: "/healthz", loader: "public", api: true },
   "routes/not-found.tsx": { path: "/no-such-page", loader: "public", action: "public" },
+  // Aids register and discrepancy reports. /reports/:id is "public" only with the signed link:
+  // without it (as here) everyone but the owner and staff gets 404, which is not a refusal.
+  "routes/report.tsx": { path: "/report", loader: "public", action: "public" },
+  "routes/reports.detail.tsx": { path: (f) => (f.reportId ? `/reports/${f.reportId}` : undefined), loader: "public" },
+  "routes/account.reports.tsx": { path: "/account/reports", loader: "signed-in" },
+  "routes/staff.reports.tsx": { path: "/staff/reports", loader: DRAFTERS, action: DRAFTERS },
+  "routes/staff.reports.aid.tsx": { path: (f) => (f.aidId ? `/staff/reports/aid/${f.aidId}` : undefined), loader: DRAFTERS, action: DRAFTERS },
+  "routes/staff.aids.tsx": { path: "/staff/aids", loader: DRAFTERS },
+  "routes/staff.aids.csv.ts": { path: "/staff/aids.csv", loader: DRAFTERS, api: true },
+  "routes/staff.aids.import.tsx": { path: "/staff/aids/import", loader: DRAFTERS, action: DRAFTERS },
+  "routes/staff.aids.edit.tsx": { path: (f) => (f.aidId ? `/staff/aids/${f.aidId}` : undefined), loader: DRAFTERS, action: DRAFTERS },
+  "routes/photos.ts": { path: (f) => `/photos/${f.photoId ?? "00000000-0000-4000-8000-000000000000"}/thumb`, loader: "public", api: true },
+  "routes/api.v1.aids.ts": { path: "/api/v1/aids", loader: "public", api: true },
+  "routes/api.v1.reports.ts": { path: "/api/v1/reports", loader: "public", action: "public", api: true, json: {} },
+  "routes/api.v1.uploads.ts": { path: "/api/v1/uploads", loader: "public", action: "public", api: true, json: {} },
+  "routes/api.v1.uploads.complete.ts": { path: "/api/v1/uploads/00000000-0000-4000-8000-000000000000/complete", action: "public", api: true },
 };
 
 type RouteEntry = { file: string; children?: RouteEntry[] };
