@@ -84,6 +84,7 @@ export interface Declination {
 // The timed model (coefficients at one instant) is reused while requests ask for the same
 // instant — several observations of one report, or a repeated request.
 let lastTimed: { t: number; name: string; model: ReturnType<WmmModel["getTimedModel"]> } | null = null;
+let lastPoint: { lat: number; lon: number; h: number; decl: number } | null = null;
 
 /**
  * Declination (east positive) at a place and time. Throws GeoInputError when the date is
@@ -106,8 +107,12 @@ export function magneticDeclination(lat: number, lon: number, at: Date, heightKm
   }
   if (!lastTimed || lastTimed.t !== t || lastTimed.name !== w.name) {
     lastTimed = { t, name: w.name, model: w.model.getTimedModel(at) };
+    lastPoint = null;
   }
-  const p = lastTimed.model.point([lat, lon, heightKm]);
+  if (!lastPoint || lastPoint.lat !== lat || lastPoint.lon !== lon || lastPoint.h !== heightKm) {
+    lastPoint = { lat, lon, h: heightKm, decl: lastTimed.model.point([lat, lon, heightKm]).decl };
+  }
+  const p = { decl: lastPoint.decl };
   const year = at.getUTCFullYear();
   return {
     declinationDeg: p.decl,
