@@ -114,7 +114,8 @@ export async function seed(knex: Knex) {
       reporter_user_id: user?.id ?? null,
       reporter_email: s.reporter,
       reporter_name: user?.name ?? null,
-      reporter_vessel: s.vessel,
+      // The demo accounts' names already carry the boat, e.g. "Declan Faulds (FV Northern Tern)".
+      reporter_vessel: user?.name.includes(s.vessel) ? null : s.vessel,
       status: s.status ?? "new",
       observed_lat: obs.lat,
       observed_lon: obs.lon,

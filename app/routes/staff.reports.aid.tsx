@@ -176,7 +176,7 @@ export default function AidReports({ loaderData, actionData }: Route.ComponentPr
           {reports.map((r) => (
             <tr key={r.id} className="border-b border-mist align-top" data-testid={`aid-report-${r.reference}`}>
               <td className="py-2">
-                <Link to={`/reports/${r.id}`} className="font-semibold underline">
+                <Link to={`/reports/${r.id}`} className="font-semibold whitespace-nowrap underline">
                   {r.reference}
                 </Link>
                 <div className="text-xs text-slate">

@@ -87,7 +87,7 @@ export default function TriageQueue({ loaderData, actionData }: Route.ComponentP
           <tbody>
             {reports.map((r) => (
               <tr key={r.id} className="border-b border-mist" data-testid={`queue-row-${r.reference}`}>
-                <td className="py-2 font-semibold">
+                <td className="py-2 font-semibold whitespace-nowrap">
                   <Link to={`/reports/${r.id}`} className="underline">
                     {r.reference}
                   </Link>
