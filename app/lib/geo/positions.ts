@@ -173,13 +173,11 @@ function tokenize(text: string): Tok[] {
         continue;
       }
       if (!nextIsNum) throw new Fail(`Unexpected "${c}"`, "invalid_character");
-      if (pendingSign) throw new Fail(`Unexpected "${c}"`, "invalid_character");
       pendingSign = c === "+" ? "+" : "-";
       i++;
       lastWasNumAdjacent = false;
       continue;
     }
-    if (pendingSign) throw new Fail(`A sign must be followed by a number`, "invalid_character");
     if (DEGREE_MARKS.has(c)) {
       toks.push({ t: "deg" });
       i++;
@@ -228,8 +226,8 @@ function tokenize(text: string): Tok[] {
     }
     throw new Fail(`Unexpected character "${c}"`, "invalid_character");
   }
-  if (pendingSign) throw new Fail(`A sign must be followed by a number`, "invalid_character");
-  // A dash marker left over (e.g. "50-") cannot happen: we only emit it before a number.
+  // A sign is only taken when a number follows, and a dash only between two numbers, so
+  // neither can be left over here.
   return toks;
 }
 
@@ -323,14 +321,13 @@ function trimSeps(toks: Tok[]): Tok[] {
   return toks.slice(a, b);
 }
 
+/** Drop separators and take the component's label (each labelled part holds exactly one). */
 function withLabel(c: Component): Component {
   let label: Axis | undefined;
   const toks: Tok[] = [];
   for (const t of c.toks) {
-    if (t.t === "label") {
-      if (label) throw new Fail("Too many lat/lon labels", "ambiguous");
-      label = t.axis;
-    } else if (t.t !== "sep") toks.push(t);
+    if (t.t === "label") label = t.axis;
+    else if (t.t !== "sep") toks.push(t);
   }
   return { toks, hemi: c.hemi, label };
 }
@@ -407,8 +404,9 @@ function readFields(c: Component, which: string): Fields {
     slots[slot] = t;
     next = slot + 1;
   }
-  const [deg, min, sec] = slots;
-  if (!deg) throw new Fail(`The ${which} has no degrees`, "incomplete");
+  // Slot 0 is always filled: a later slot without the one before it was refused above.
+  const deg = slots[0]!;
+  const [, min, sec] = slots;
   for (const f of [min, sec]) {
     if (f?.signed) throw new Fail(`Only the degrees of the ${which} may carry a sign`, "ambiguous");
   }

@@ -271,6 +271,9 @@ describe("rejections name the field", () => {
     expectError({ ...ok, observations: [{ method: "gnss", position: "50°61′N 1°W" }] }, "observations.0.position", "Minutes must be less than 60 (latitude: 61′)");
     expectError({ ...ok, observations: [gnss(0, 0), { ...radar, ownPosition: "" }] }, "observations.1.ownPosition", "Enter a position");
     expectError({ ...ok, observations: [{ method: "gnss", position: { easting: 1, northing: 2 } }] }, "observations.0.position", /This position is WGS 84/);
+    expectError({ ...ok, observations: [{ method: "gnss", position: { lat: 55, lon: 181 } }] }, "observations.0.position", "Longitude 181° is beyond 180°");
+    expectError({ ...ok, observations: [{ method: "gnss", position: "5".repeat(201) }] }, "observations.0.position", "This position is too long");
+    expectError({ ...ok, charted: { position: { lat: 55, lon: 3 }, crs: "EPSG:23031" } }, "charted.position", "EPSG:23031 is projected: give an easting and northing in metres");
   });
 
   it("observations", () => {
@@ -293,6 +296,11 @@ describe("rejections name the field", () => {
     expectError({ ...ok, observations: [{ ...compass, observedAt: "2019-02-01T00:00:00Z" }] }, "observations.0.observedAt", "2019-02-01 is before 2020-01-01, the earliest date the magnetic models cover");
     expectError({ ...ok, observations: [{ ...compass, distanceM: 0 }] }, "observations.0.distanceM", "distanceM must be greater than 0");
     expectError({ ...ok, observations: [{ ...compass, colour: "red" }] }, "observations.0.colour", "Unknown field: colour");
+    expectError({ ...ok, observations: Array.from({ length: 21 }, () => gnss(0, 0)) }, "observations", "At most 20 observations per assessment");
+    expectError({ ...ok, observations: [{ ...gnss(0, 0), accuracyM: 0 }] }, "observations.0.accuracyM", "accuracyM must be greater than 0");
+    expectError({ ...ok, observations: [{ ...gnss(0, 0), offsetM: "5" }] }, "observations.0.offsetM", "offsetM must be a number of metres");
+    expectError({ ...ok, observations: [{ ...radar, bearingDeg: "N" }] }, "observations.0.bearingDeg", "bearingDeg must be a number of degrees");
+    expectError({ ...ok, swingRadiusM: 20_000 }, "swingRadiusM", "swingRadiusM must be at most 10,000 m");
   });
 
   it("assess() throws GeoInputError with the field; fieldErrors lists every problem", () => {

@@ -169,6 +169,15 @@ describe("parsePosition: every rejection message", () => {
     expect(bad("50°47″N 1°W")).toMatchObject({ code: "ambiguous", error: "The latitude has seconds without minutes" });
     expect(bad("50N 1E 5")).toMatchObject({ code: "ambiguous", error: "Unexpected text after the second hemisphere letter" });
     expect(bad("50 -30 1 6")).toMatchObject({ code: "ambiguous", error: "Only the degrees of the latitude may carry a sign" });
+    expect(bad("50 lat 1 lon 2")).toMatchObject({ code: "ambiguous", error: "Put each lat/lon label before its value" });
+    expect(bad("lat 1 lon 2 lat 3")).toMatchObject({ code: "ambiguous", error: "Too many lat/lon labels" });
+    expect(bad("lat 50N N lon 1E")).toMatchObject({ code: "ambiguous", error: "Too many hemisphere letters" });
+    expect(bad("5 50° 1°")).toMatchObject({ code: "ambiguous", error: "Start each value with its degrees" });
+    expect(bad("50-47 1-6 3")).toMatchObject({ code: "ambiguous", error: "Give exactly two values (latitude and longitude)" });
+    expect(bad("50-47")).toMatchObject({ code: "incomplete", error: "Give exactly two values (latitude and longitude)" });
+    expect(bad("50° 1° 2°")).toMatchObject({ code: "ambiguous", error: "Too many degree values" });
+    expect(bad("N W 1")).toMatchObject({ code: "incomplete", error: "The latitude has no value" });
+    expect(bad("°50N 1E")).toMatchObject({ code: "ambiguous", error: "Unexpected degree mark in the latitude" });
   });
 
   it("fraction before minutes or seconds", () => {
