@@ -26,7 +26,7 @@ export function isDbUnavailable(error: unknown): boolean {
   const e = error as { code?: string; name?: string; message?: string };
   if (e.code && CONNECTION_ERROR_CODES.has(e.code)) return true;
   if (e.name === "KnexTimeoutError") return true;
-  return /connect ECONNREFUSED|Connection lost|Pool is closed/i.test(e.message ?? "");
+  return /connect ECONNREFUSED|Connection lost|Pool is closed|connection is in closed state/i.test(e.message ?? "");
 }
 
 /** The thrown response for a database outage: rendered as the 503 page or a JSON 503. */

@@ -243,7 +243,7 @@ function startQuietServer(env: NodeJS.ProcessEnv, buildDir: string): Child {
   });
   let out = "";
   const keep = (d: Buffer) => {
-    out = (out + d.toString()).slice(-20_000);
+    out = (out + d.toString()).slice(-400_000);
   };
   child.proc.stdout?.on("data", keep);
   child.proc.stderr?.on("data", keep);

@@ -8,7 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startLoad, sleep, tally, until, type Sample } from "../../scripts/quality/loadgen";
 import { request } from "../../scripts/quality/http";
 import { createAccount, PASSWORD, sessionCookie } from "../../scripts/quality/people";
-import { startStack, type Stack } from "../../scripts/quality/stack";
+import { serverOutput, startStack, type Stack } from "../../scripts/quality/stack";
 
 let stack: Stack;
 beforeAll(async () => {
@@ -57,10 +57,10 @@ describe("database outage under load", () => {
     expect(stack.servers.map((s) => s.proc.pid)).toEqual(serverPids);
     expect(stack.servers.every((s) => s.proc.exitCode === null), "the app processes kept running").toBe(true);
 
-    const describeSample = (s: Sample) => `${s.target} ${s.path} → ${s.status} ${s.contentType} ${s.error ?? s.body.slice(0, 200)}`;
+    const describeSample = (s: Sample) => `${s.target} ${s.path} → ${s.status} ${s.contentType} ${s.error ?? (s.body.includes("<main") ? s.body.slice(s.body.indexOf("<main"), s.body.indexOf("<main") + 400) : s.body.slice(0, 200))}`;
     // Never a 500, never a dropped connection: only success, a redirect or a 503.
     const bad = samples.filter((s) => ![200, 302, 503].includes(s.status));
-    expect(bad.map(describeSample)).toEqual([]);
+    expect(bad.map(describeSample), `server log:\n${serverOutput(stack.servers[0]!).split("\n").filter((l) => !/Acquire connection error|^\s+at |ECONNREFUSED/.test(l)).join("\n").slice(-3000)}`).toEqual([]);
 
     for (const s of samples.filter((x) => x.status === 503)) {
       expect(s.retryAfter, describeSample(s)).toBeTruthy();
