@@ -3,6 +3,7 @@ import type { Route } from "./+types/reports.detail";
 import { Caution } from "~/components/Caution";
 import { AssessmentFigures, VerdictBadge } from "~/components/reports/AssessmentSummary";
 import { ReportTimeline } from "~/components/reports/ReportTimeline";
+import { TriageActions } from "~/components/reports/TriageActions";
 import { formatPosition } from "~/lib/geo/positions";
 import { can } from "~/lib/permissions";
 import { METHOD_LABELS, REPORT_STATUS_LABELS } from "~/lib/reports/schema";
@@ -10,7 +11,8 @@ import { formatInZone } from "~/lib/reports/time";
 import { getDefaultHarbour } from "~/models/harbour.server";
 import { photosOfReports } from "~/models/photo.server";
 import { getReport, reportEvents, verifyReportLinkKey } from "~/models/report.server";
-import { getOptionalUser } from "~/services/auth.server";
+import { getOptionalUser, requireCapability } from "~/services/auth.server";
+import { handleTriageAction, type TriageActionData } from "~/services/triage.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.report.reference ?? "Report"} · Tidewire` }, { name: "robots", content: "noindex" }];
 
@@ -53,8 +55,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export default function ReportDetail({ loaderData }: Route.ComponentProps) {
+/** Triage from the report's own page (officers and the harbourmaster). */
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireCapability(request, "report:triage");
+  if (!/^\d{1,9}$/.test(params.id)) throw data({ error: "There is no report at this address." }, { status: 404 });
+  return handleTriageAction(request, user, `/reports/${params.id}`);
+}
+
+export default function ReportDetail({ loaderData, actionData }: Route.ComponentProps) {
   const { report, events, photos, timeZone, isStaff } = loaderData;
+  const failure = actionData as TriageActionData | undefined;
   return (
     <div className="mx-auto max-w-4xl">
       <p className="text-sm font-bold tracking-widest text-tide uppercase">Discrepancy report</p>
@@ -116,6 +126,14 @@ export default function ReportDetail({ loaderData }: Route.ComponentProps) {
               </li>
             ))}
           </ul>
+        </section>
+      ) : null}
+      {isStaff ? (
+        <section className="card mt-6">
+          <h2 className="text-lg font-bold">Triage</h2>
+          <div className="mt-2">
+            <TriageActions report={report} hasAid={report.aidId !== null} others={[]} error={failure ? Object.values(failure.errors)[0] : undefined} />
+          </div>
         </section>
       ) : null}
       <section className="mt-6">

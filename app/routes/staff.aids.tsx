@@ -1,11 +1,15 @@
-import { Link, useNavigate } from "react-router";
+import { data, Form, Link, useNavigate } from "react-router";
+import { z } from "zod";
 import type { Route } from "./+types/staff.aids";
 import { Caution } from "~/components/Caution";
 import { ReportMap } from "~/components/reports/ReportMap";
-import { AID_STATUS_LABELS, AID_TYPE_LABELS, IALA_CATEGORY_LABELS } from "~/lib/aids/iala";
-import { aidLight, aidSwingRadiusM, listAids } from "~/models/aid.server";
+import { AID_STATUS_LABELS, AID_STATUSES, AID_TYPE_LABELS, IALA_CATEGORY_LABELS } from "~/lib/aids/iala";
+import { db } from "~/db.server";
+import { aidLight, aidSwingRadiusM, getAid, listAids, setAidStatus } from "~/models/aid.server";
 import { getDefaultHarbour } from "~/models/harbour.server";
 import { requireCapability } from "~/services/auth.server";
+import { readForm } from "~/services/form.server";
+import { redirectWithToast } from "~/services/session.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Aids to navigation register · Tidewire" }];
 
@@ -36,7 +40,25 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-export default function AidsRegister({ loaderData }: Route.ComponentProps) {
+const statusSchema = z.object({
+  aidId: z.coerce.number().int().positive({ error: "Choose an aid" }),
+  status: z.enum(AID_STATUSES, { error: "Choose a status" }),
+  reason: z.string().trim().max(500, { error: "At most 500 characters" }).optional(),
+});
+
+/** Quick status change from the list (with a history row), e.g. a light reported unlit. */
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireCapability(request, "aid:manage");
+  const form = await readForm(request);
+  const parsed = statusSchema.safeParse(Object.fromEntries(form));
+  if (!parsed.success) return data({ error: parsed.error.issues[0]!.message }, { status: 400 });
+  const aid = await getAid(parsed.data.aidId);
+  if (!aid) return data({ error: "No such aid" }, { status: 404 });
+  const changed = await db.transaction((trx) => setAidStatus(aid.id, parsed.data.status, { reason: parsed.data.reason || "Changed on the register list", userId: user.id }, trx));
+  return redirectWithToast(request, "/staff/aids", { kind: "success", message: changed ? `${aid.code} is now ${AID_STATUS_LABELS[parsed.data.status].toLowerCase()}.` : `${aid.code} was already ${AID_STATUS_LABELS[parsed.data.status].toLowerCase()}.` });
+}
+
+export default function AidsRegister({ loaderData, actionData }: Route.ComponentProps) {
   const { aids, basemap } = loaderData;
   const navigate = useNavigate();
   return (
@@ -62,6 +84,11 @@ export default function AidsRegister({ loaderData }: Route.ComponentProps) {
       <div className="mt-4">
         <Caution compact />
       </div>
+      {(actionData as { error?: string } | undefined)?.error ? (
+        <p role="alert" className="field-error mt-3">
+          {(actionData as { error: string }).error}
+        </p>
+      ) : null}
       <div className="mt-4">
         <ReportMap
           aids={aids.map((a) => ({ id: a.id, code: a.code, lat: a.lat, lon: a.lon, category: a.ialaCategory, aidType: a.aidType, status: a.status }))}
@@ -104,7 +131,22 @@ export default function AidsRegister({ loaderData }: Route.ComponentProps) {
                 {a.charted} <span className="text-xs text-slate">{a.crs}</span>
               </td>
               <td>{a.swingRadiusM === null ? "—" : `${a.swingRadiusM.toFixed(1)} m`}</td>
-              <td>{AID_STATUS_LABELS[a.status]}</td>
+              <td>
+                <Form method="post" className="flex items-center gap-1">
+                  <input type="hidden" name="aidId" value={a.id} />
+                  <label className="sr-only" htmlFor={`status-${a.id}`}>
+                    Status of {a.code}
+                  </label>
+                  <select id={`status-${a.id}`} name="status" defaultValue={a.status} className="field-input w-32 py-1">
+                    {AID_STATUSES.map((s) => (
+                      <option key={s} value={s}>
+                        {AID_STATUS_LABELS[s]}
+                      </option>
+                    ))}
+                  </select>
+                  <button className="btn-secondary px-2 py-1 text-xs">Set</button>
+                </Form>
+              </td>
             </tr>
           ))}
         </tbody>

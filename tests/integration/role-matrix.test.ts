@@ -29,11 +29,11 @@ export const ACCESS: Record<string, Access> = {
   "routes/not-found.tsx": { path: "/no-such-page", loader: "public", action: "public" },
   // Aids register and discrepancy reports (a missing id answers 404 to those allowed).
   "routes/report.tsx": { path: "/report", loader: "public", action: "public" },
-  "routes/reports.detail.tsx": { path: "/reports/999999", params: { id: "999999" }, loader: "public" },
+  "routes/reports.detail.tsx": { path: "/reports/999999", params: { id: "999999" }, loader: "public", action: DRAFTERS },
   "routes/account.reports.tsx": { path: "/account/reports", loader: "signed-in" },
   "routes/staff.reports.tsx": { path: "/staff/reports", loader: DRAFTERS, action: DRAFTERS },
   "routes/staff.reports.aid.tsx": { path: "/staff/reports/aid/999999", params: { aidId: "999999" }, loader: DRAFTERS, action: DRAFTERS },
-  "routes/staff.aids.tsx": { path: "/staff/aids", loader: DRAFTERS },
+  "routes/staff.aids.tsx": { path: "/staff/aids", loader: DRAFTERS, action: DRAFTERS },
   "routes/staff.aids.csv.ts": { path: "/staff/aids.csv", loader: DRAFTERS },
   "routes/staff.aids.import.tsx": { path: "/staff/aids/import", loader: DRAFTERS, action: DRAFTERS },
   "routes/staff.aids.edit.tsx": { path: "/staff/aids/new", params: { aidId: "new" }, loader: DRAFTERS, action: DRAFTERS },

@@ -48,11 +48,11 @@ const ACCESS: Record<string, Access> = {
   // Aids register and discrepancy reports. /reports/:id is "public" only with the signed link:
   // without it (as here) everyone but the owner and staff gets 404, which is not a refusal.
   "routes/report.tsx": { path: "/report", loader: "public", action: "public" },
-  "routes/reports.detail.tsx": { path: (f) => (f.reportId ? `/reports/${f.reportId}` : undefined), loader: "public" },
+  "routes/reports.detail.tsx": { path: (f) => (f.reportId ? `/reports/${f.reportId}` : undefined), loader: "public", action: DRAFTERS },
   "routes/account.reports.tsx": { path: "/account/reports", loader: "signed-in" },
   "routes/staff.reports.tsx": { path: "/staff/reports", loader: DRAFTERS, action: DRAFTERS },
   "routes/staff.reports.aid.tsx": { path: (f) => (f.aidId ? `/staff/reports/aid/${f.aidId}` : undefined), loader: DRAFTERS, action: DRAFTERS },
-  "routes/staff.aids.tsx": { path: "/staff/aids", loader: DRAFTERS },
+  "routes/staff.aids.tsx": { path: "/staff/aids", loader: DRAFTERS, action: DRAFTERS },
   "routes/staff.aids.csv.ts": { path: "/staff/aids.csv", loader: DRAFTERS, api: true },
   "routes/staff.aids.import.tsx": { path: "/staff/aids/import", loader: DRAFTERS, action: DRAFTERS },
   "routes/staff.aids.edit.tsx": { path: (f) => (f.aidId ? `/staff/aids/${f.aidId}` : undefined), loader: DRAFTERS, action: DRAFTERS },
