@@ -233,18 +233,25 @@ export type NoticeFilter = {
 };
 
 /**
- * Step one of a bbox search: the ids of notices with a part whose MBR intersects the box, by
- * MBRIntersects on the SPATIAL index of notice_parts.geom (in MariaDB only MBR* and
- * ST_Intersects use it). Kept a statement of its own: MariaDB 10.11.18 fails the same
+ * Step one of a bbox search: the ids of notices matching the filter with a part whose MBR
+ * intersects the box (MBRIntersects, which the SPATIAL index of notice_parts.geom serves; in
+ * MariaDB only MBR* and ST_Intersects use it — the optimizer takes it when the box is the
+ * selective part). A statement of its own without ORDER BY/LIMIT: MariaDB 10.11.18 fails the
  * predicate inside `id IN (subquery)`, EXISTS or a joined derived table once the plan scans
- * notices in id order for ORDER BY … LIMIT (error 1207 "Update locks cannot be acquired during a
- * READ UNCOMMITTED transaction", reproduced here).
+ * notices in id order for ORDER BY … LIMIT (error 1207 "Update locks cannot be acquired during
+ * a READ UNCOMMITTED transaction", reproduced here).
  */
-export async function noticeIdsInBbox(bbox: [number, number, number, number], db: Db = defaultDb): Promise<number[]> {
-  const [rows] = (await db.raw(BBOX_IDS_SQL, [bboxWkt(bbox)])) as [{ notice_id: number }[]];
-  return rows.map((r) => r.notice_id);
+export function bboxIdsQuery(f: NoticeFilter & { bbox: [number, number, number, number]; afterId?: number }, db: Db = defaultDb, now = new Date()) {
+  const q = db("notice_parts as p").join("notices as n", "n.id", "p.notice_id").select("p.notice_id").whereRaw("MBRIntersects(p.geom, ST_GeomFromText(?, 4326))", [bboxWkt(f.bbox)]);
+  applyFilter(q, { ...f, bbox: undefined, status: f.status ?? "in_force" }, now, db);
+  if (f.afterId) q.where("n.id", ">", f.afterId);
+  return q;
 }
-export const BBOX_IDS_SQL = "SELECT DISTINCT notice_id FROM notice_parts WHERE MBRIntersects(geom, ST_GeomFromText(?, 4326))";
+
+export async function noticeIdsInBbox(f: NoticeFilter & { bbox: [number, number, number, number]; afterId?: number }, db: Db = defaultDb, now = new Date()): Promise<number[]> {
+  const rows = (await bboxIdsQuery(f, db, now)) as { notice_id: number }[];
+  return [...new Set(rows.map((r) => r.notice_id))];
+}
 
 /** The bbox as a WGS 84 polygon WKT (X = longitude). */
 export function bboxWkt([minLon, minLat, maxLon, maxLat]: [number, number, number, number]): string {
@@ -353,7 +360,8 @@ export async function listRecentlyEnded(harbourId: number | undefined, days = 14
 
 /** The main statement of an API page (after the bbox step); the benchmark's baseline runs the same SQL. */
 export function apiQuery(f: NoticeFilter & { afterId?: number; limit: number }, db: Db = defaultDb, now = new Date()) {
-  const q = applyFilter(baseSelect(db), { ...f, status: f.status ?? "in_force" }, now, db);
+  // The bbox itself was applied by the bbox step (bboxIds).
+  const q = applyFilter(baseSelect(db), { ...f, bbox: undefined, status: f.status ?? "in_force" }, now, db);
   if (f.afterId) q.where("n.id", ">", f.afterId);
   return q.orderBy("n.id", "asc").limit(f.limit + 1);
 }
@@ -364,7 +372,7 @@ export async function listNoticesForApi(
   db: Db = defaultDb,
   now = new Date(),
 ): Promise<{ notices: NoticeView[]; nextAfterId: number | null }> {
-  const bboxIds = f.bbox ? await noticeIdsInBbox(f.bbox, db) : undefined;
+  const bboxIds = f.bbox ? await noticeIdsInBbox({ ...f, bbox: f.bbox }, db, now) : undefined;
   if (bboxIds && bboxIds.length === 0) return { notices: [], nextAfterId: null };
   const rows = (await apiQuery({ ...f, bboxIds }, db, now)) as NoticeRow[];
   const more = rows.length > f.limit;
