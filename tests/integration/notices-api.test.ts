@@ -5,6 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db.server";
 import { ringSignedArea2, type LonLat } from "~/lib/notices/geometry";
 import { clearHarbourCache } from "~/models/harbour.server";
+import { conditionalGet } from "~/services/http-cache.server";
 import { cancelNotice, createDraft, getNotice, publishNotice, updateNotice } from "~/models/notice.server";
 import * as apiList from "~/routes/api.v1.notices";
 import * as apiOne from "~/routes/api.v1.notices.id";
@@ -238,5 +239,34 @@ describe("staff editor actions: bad input is a field error, nothing lost, never 
     const boater = await signedInAs("boater");
     const denied = await call(newRoute.loader, { path: "/staff/notices/new", cookie: boater.cookie });
     expect(denied.status).toBe(403);
+  });
+});
+
+describe("page validators (conditionalGet middleware)", () => {
+  const page = (etag: string, extra: Record<string, string> = {}) => async () =>
+    new Response("<html>…</html>", {
+      status: 200,
+      headers: { ETag: etag, "Cache-Control": "public, no-cache", "Content-Security-Policy": "script-src 'self' 'nonce-NEW123'", ...extra },
+    });
+  const run = (headers: Record<string, string>, next: () => Promise<Response>) =>
+    (conditionalGet as unknown as (a: { request: Request }, n: () => Promise<Response>) => Promise<Response>)({ request: new Request("http://127.0.0.1:3000/notices/1", { headers }) }, next);
+
+  it("adds the response's CSP nonce to the ETag and answers 304 with the client's nonce", async () => {
+    const first = await run({}, page('W/"abc"'));
+    expect(first.status).toBe(200);
+    expect(first.headers.get("ETag")).toBe('W/"abc.NEW123"');
+    const again = await run({ "If-None-Match": 'W/"abc.OLD999"' }, page('W/"abc"'));
+    expect(again.status).toBe(304);
+    // The browser keeps its cached copy (nonce OLD999): the 304's CSP must allow that nonce.
+    expect(again.headers.get("Content-Security-Policy")).toContain("'nonce-OLD999'");
+    expect(again.headers.get("ETag")).toBe('W/"abc.OLD999"');
+    const changed = await run({ "If-None-Match": 'W/"abc.OLD999"' }, page('W/"def"'));
+    expect(changed.status).toBe(200);
+  });
+
+  it("never revalidates a response that sets a cookie (a one-time toast)", async () => {
+    const res = await run({ "If-None-Match": 'W/"abc"' }, page('W/"abc"', { "Set-Cookie": "tw_session=x" }));
+    expect(res.status).toBe(200);
+    expect(res.headers.get("ETag")).toBeNull();
   });
 });
