@@ -8,6 +8,7 @@ import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import knex, { type Knex } from "knex";
+import { SMTPServer } from "smtp-server";
 import { startS3Fake, type S3Fake } from "../../fakes/s3";
 import { startSmtpFake, type SmtpFake } from "../../fakes/smtp";
 import { buildApp, spawnChild, startAppServer, startWorker, stopChildren, waitForHttp, type Child } from "../lib/children";
@@ -15,6 +16,15 @@ import { migrateLatest, runSeeds } from "../lib/knex-ops";
 import { ensureMariadbInstalled, startMariadb, stopMariadb } from "../lib/mariadb";
 import { LOCAL, ROOT } from "../lib/paths";
 import { freePort } from "../lib/ports";
+
+// fakes/smtp.ts registers no "error" listener on its SMTPServer, so a client that vanishes
+// mid-session (a worker SIGKILLed while sending) emits an unhandled "error" (ECONNRESET) that
+// takes the whole process down. Until the fake handles it, every SMTP server started here does.
+const listen = SMTPServer.prototype.listen;
+SMTPServer.prototype.listen = function (this: SMTPServer, ...args: Parameters<typeof listen>) {
+  if (this.listenerCount("error") === 0) this.on("error", () => undefined);
+  return listen.apply(this, args);
+} as typeof listen;
 
 export interface StackOptions {
   /** Run seeds/*.ts (demo accounts, Kestrel Sound, aids …). Default true. */
