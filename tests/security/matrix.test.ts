@@ -26,9 +26,7 @@ const DRAFTERS = ["officer", "harbourmaster"] as const;
 const PUBLISHERS = ["harbourmaster"] as const;
 const MAIL_ADMINS = ["harbourmaster", "admin"] as const;
 const ADMINS = ["admin"] as const;
-void DRAFTERS;
 void PUBLISHERS;
-void MAIL_ADMINS;
 
 /** route file → who may call its loader and its action. */
 const ACCESS: Record<string, Access> = {
@@ -60,6 +58,31 @@ const ACCESS: Record<string, Access> = {
   "routes/api.v1.aids.ts": { path: "/api/v1/aids", loader: "public", api: true },
   "routes/api.v1.reports.ts": { path: "/api/v1/reports", loader: "public", action: "public", api: true, json: {} },
   "routes/api.v1.uploads.ts": { path: "/api/v1/uploads", loader: "public", action: "public", api: true, json: {} },
+  // Notices: public reading, staff drafting (notice:draft = officer + harbourmaster).
+  "routes/notices.tsx": { path: "/notices", loader: "public" },
+  "routes/notices.id.tsx": { path: (f) => (f.noticeId ? `/notices/${f.noticeId}` : undefined), loader: "public" },
+  "routes/notices.gpx.ts": { path: (f) => (f.noticeId ? `/notices/${f.noticeId}/gpx` : undefined), loader: "public", api: true },
+  "routes/bulletin.tsx": { path: "/bulletin", loader: "public" },
+  "routes/feeds.tsx": { path: "/feeds", loader: "public" },
+  "routes/feeds.notices.atom.ts": { path: "/feeds/notices.atom", loader: "public", api: true },
+  "routes/api.v1.notices.ts": { path: "/api/v1/notices", loader: "public", api: true },
+  "routes/api.v1.notices.id.ts": { path: (f) => (f.noticeId ? `/api/v1/notices/${f.noticeId}` : undefined), loader: "public", api: true },
+  "routes/staff.notices.tsx": { path: "/staff/notices", loader: DRAFTERS },
+  "routes/staff.notices.new.tsx": { path: "/staff/notices/new", loader: DRAFTERS, action: DRAFTERS },
+  "routes/staff.notices.edit.tsx": { path: (f) => (f.draftNoticeId ? `/staff/notices/${f.draftNoticeId}/edit` : undefined), loader: DRAFTERS, action: DRAFTERS },
+  // Subscriptions: anyone subscribes (confirmed by e-mail); token links manage; staff see mail.
+  "routes/subscribe.tsx": { path: "/subscribe", loader: "public", action: "public" },
+  "routes/subscribe.sent.tsx": { path: "/subscribe/sent", loader: "public" },
+  "routes/subscribe.confirm.tsx": { path: "/subscribe/confirm?token=nope", loader: "public", action: "public" },
+  "routes/subscriptions.manage.tsx": { path: "/subscriptions/manage?token=nope", loader: "public", action: "public" },
+  "routes/unsubscribe.tsx": { path: "/unsubscribe?token=nope", loader: "public", action: "public" },
+  "routes/account.subscriptions.tsx": { path: "/account/subscriptions", loader: "signed-in", action: "signed-in" },
+  "routes/staff.mail.tsx": { path: "/staff/mail", loader: MAIL_ADMINS, action: MAIL_ADMINS },
+  // Geo tools: public, nothing stored.
+  "routes/tools.tsx": { path: "/tools", loader: "public" },
+  "routes/api.v1.convert.ts": { path: "/api/v1/convert", loader: "public", api: true },
+  "routes/api.v1.measure.ts": { path: "/api/v1/measure", loader: "public", api: true },
+  "routes/api.v1.assessments.ts": { path: "/api/v1/assessments", loader: "public", action: "public", api: true, json: {} },
   "routes/api.v1.uploads.complete.ts": { path: "/api/v1/uploads/00000000-0000-4000-8000-000000000000/complete", action: "public", api: true },
 };
 
