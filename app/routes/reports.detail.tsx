@@ -67,7 +67,7 @@ export default function ReportDetail({ loaderData, actionData }: Route.Component
   const failure = actionData as TriageActionData | undefined;
   return (
     <div className="mx-auto max-w-4xl">
-      <p className="text-sm font-bold tracking-widest text-tide uppercase">Discrepancy report</p>
+      <p className="text-sm font-bold tracking-widest text-deep uppercase">Discrepancy report</p>
       <h1 className="mt-1 text-2xl font-bold">
         {report.reference}: {report.aidCode ? `${report.aidCode} ${report.aidName ?? ""}` : `Uncharted hazard — ${report.hazardDescription}`}
       </h1>
