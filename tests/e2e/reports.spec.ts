@@ -42,6 +42,14 @@ test("guest radar report with a photo → off station in the queue → notice dr
   await guest.goto("/report?aid=KS5");
   await expect(guest.getByText("If you chose radar:")).toBeHidden(); // hydrated: only the chosen method shows
   await expect(guest.getByTestId("aid-facts")).toContainText("28.3 m"); // √(30² − 10²)
+  // The photo goes up at once (XHR with a progress bar); its EXIF GPS and time are offered.
+  await guest.locator("#photos").setInputFiles({ name: "ks5.jpg", mimeType: "image/jpeg", buffer: await jpegWithGps({ width: 1600, height: 1200, lat: 55.1921, lon: 3.0123 }) });
+  await expect(guest.getByTestId("uploaded-photo")).toHaveCount(1);
+  await expect(guest.getByTestId("uploaded-photo")).toContainText("GPS tag");
+  await guest.getByRole("button", { name: "use as own position" }).click();
+  await expect(guest.locator('input[name="radar.ownPosition"]')).toHaveValue(formatPosition(55.1921, 3.0123, "ddm", { decimals: 3 }));
+  // The photo was taken on 30 Nov 2026 14:05 (its EXIF time), long before "now": flagged.
+  await expect(guest.getByTestId("photo-flags")).toContainText("before the observation time given");
   await guest.locator('input[name="radar.ownPosition"]').fill(fix.own);
   await guest.locator('input[name="radar.rangeNm"]').fill(fix.rangeNm);
   await guest.locator('input[name="radar.bearingDeg"]').fill(fix.bearingDeg);
@@ -49,9 +57,6 @@ test("guest radar report with a photo → off station in the queue → notice dr
   const preview = guest.getByTestId("assessment-preview");
   await expect(preview).toContainText("Off station");
   await expect(preview.getByTestId("displacement")).toContainText(/^14[78] m \(0\.080 M\) 090°T/);
-  await guest.locator("#photos").setInputFiles({ name: "ks5.jpg", mimeType: "image/jpeg", buffer: await jpegWithGps({ width: 1600, height: 1200 }) });
-  await expect(guest.getByTestId("uploaded-photo")).toHaveCount(1);
-  await expect(guest.getByTestId("uploaded-photo")).toContainText("GPS tag");
   await guest.getByLabel("Your e-mail address").fill(email);
   await guest.getByLabel("Your name (optional)").fill("Morven Gask");
   await guest.getByLabel("Vessel (optional)").fill("FV Bright Dawn");
