@@ -10,7 +10,14 @@ export type OutboxMail = {
   html?: string;
   headers?: Record<string, string>;
   runAt?: Date;
+  /** Claim order, 1 first … 9 last; by default from the kind (see priorityOf). */
+  priority?: number;
 };
+
+/** Alerts go first, digests last; everything else in between. */
+export function priorityOf(kind: string): number {
+  return kind === "alert" ? 1 : kind === "digest" ? 9 : 5;
+}
 
 /**
  * Queues a message in the same transaction as the change that causes it. A second enqueue
@@ -28,6 +35,7 @@ export async function enqueueMail(mail: OutboxMail, db: Db = defaultDb): Promise
       headers: JSON.stringify(mail.headers ?? {}),
       status: "queued",
       run_at: mail.runAt ?? new Date(),
+      priority: mail.priority ?? priorityOf(mail.kind),
     })
     .onConflict("idempotency_key")
     .ignore();
@@ -70,6 +78,7 @@ export async function enqueueMails(mails: OutboxMail[], db: Db = defaultDb): Pro
       headers: JSON.stringify(mail.headers ?? {}),
       status: "queued",
       run_at: mail.runAt ?? now,
+      priority: mail.priority ?? priorityOf(mail.kind),
     }));
     if (rows.length) await db("outbox").insert(rows).onConflict("idempotency_key").ignore();
   }
@@ -83,10 +92,11 @@ export function backoffMs(attempts: number, baseMs = BACKOFF_BASE_MS, maxMs = BA
 export type ClaimOptions = { leaseMs?: number };
 
 /**
- * Claims up to `limit` due messages: first queued ones whose time has come, then ones whose
- * sender's lease ran out (a worker that died while sending). SKIP LOCKED lets several workers
- * claim disjoint sets; each query walks the (status, run_at, id) index in order, so a worker
- * locks only the rows it takes and a second worker finds the next ones.
+ * Claims up to `limit` due messages: first queued ones whose time has come (alerts before other
+ * mail before digests), then ones whose sender's lease ran out (a worker that died while
+ * sending). SKIP LOCKED lets several workers claim disjoint sets; each query walks an index in
+ * its ORDER BY order ((status, priority, run_at, id) and (status, run_at, id)), so a worker
+ * locks only the rows it reads and a second worker finds the next ones.
  */
 export async function claimBatch(limit: number, workerId: string, db = defaultDb, opts: ClaimOptions = {}): Promise<OutboxRow[]> {
   return db.transaction(async (trx) => {
@@ -94,7 +104,7 @@ export async function claimBatch(limit: number, workerId: string, db = defaultDb
     const rows: OutboxRow[] = await trx("outbox")
       .where({ status: "queued" })
       .andWhere("run_at", "<=", now)
-      .orderBy([{ column: "run_at" }, { column: "id" }])
+      .orderBy([{ column: "priority" }, { column: "run_at" }, { column: "id" }])
       .limit(limit)
       .forUpdate()
       .skipLocked();

@@ -28,6 +28,8 @@ async function deliver(row: OutboxRow, transport?: Transporter) {
     html: row.body_html ?? undefined,
     headers,
     messageId: messageIdFor(row.idempotency_key),
+    // base64 costs a fraction of quoted-printable to encode (digests are large and many).
+    textEncoding: "base64",
   }, transport);
 }
 

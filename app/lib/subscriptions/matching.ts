@@ -81,8 +81,15 @@ export function distanceToPathM(centre: { lat: number; lon: number }, points: Lo
   return best;
 }
 
-function pointInRing(lon: number, lat: number, ring: LonLat[]): boolean {
-  return booleanIntersects(feature({ type: "Point", coordinates: [lon, lat] }), feature({ type: "Polygon", coordinates: [ring] }));
+/** Even-odd ray casting in lon/lat (boundary counts as inside only by the distance test after). */
+export function pointInRing(lon: number, lat: number, ring: LonLat[]): boolean {
+  let inside = false;
+  for (let i = 0, j = ring.length - 1; i < ring.length; j = i++) {
+    const [xi, yi] = ring[i];
+    const [xj, yj] = ring[j];
+    if (yi > lat !== yj > lat && lon < ((xj - xi) * (lat - yi)) / (yj - yi) + xi) inside = !inside;
+  }
+  return inside;
 }
 
 /** Distance in metres from a point to a notice part (0 when inside an area or circle). */
@@ -115,6 +122,7 @@ export function areaTouchesPart(area: SubscriptionArea, part: NoticePartShape): 
     if (pointInRing(lon, lat, area.ring)) return true;
     return distanceToPathM({ lat, lon }, area.ring.slice(0, -1), true) <= (part.radiusNm ?? 0) * METRES_PER_NAUTICAL_MILE;
   }
+  if (part.kind === "point") return pointInRing(part.coordinates[0][0], part.coordinates[0][1], area.ring);
   return booleanIntersects(feature({ type: "Polygon", coordinates: [area.ring] }), feature(geometryOf(part)));
 }
 

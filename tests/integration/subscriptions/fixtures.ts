@@ -125,6 +125,8 @@ export async function startGateSmtp(opts: { holdAfter?: number } = {}): Promise<
       });
     },
   });
+  // A client killed mid-transaction resets its connection: expected here, not an error.
+  server.on("error", () => {});
   await new Promise<void>((r) => server.listen(0, "127.0.0.1", () => r()));
   const port = (server.server.address() as AddressInfo).port;
   return {

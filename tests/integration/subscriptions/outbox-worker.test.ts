@@ -2,7 +2,7 @@
 // database and SMTP sinks on real sockets: crash and restart, relay outage, two workers.
 import { afterAll, describe, expect, it } from "vitest";
 import { db } from "~/db.server";
-import { enqueueMail } from "~/models/outbox.server";
+import { claimBatch, enqueueMail } from "~/models/outbox.server";
 import { messageIdFor } from "~/worker/outbox";
 import { startSmtpFake } from "../../../fakes/smtp";
 import { mkdtempSync } from "node:fs";
@@ -124,5 +124,22 @@ describe("outbox worker", () => {
     const split = await db("outbox").where("idempotency_key", "like", `${prefix}:%`).select("locked_by").count({ n: "*" }).groupBy("locked_by");
     console.log(`[two workers] messages per worker: ${split.map((s: any) => s.n).join(" / ")}`);
     await fake.stop();
+  });
+
+  it("claims an alert queued after thousands of digests before them", async () => {
+    const prefix = `prio-${tag()}`;
+    await db.transaction(async (trx) => {
+      for (let i = 0; i < 30; i++) await enqueueMail({ idempotencyKey: `${prefix}:digest:${i}`, kind: "digest", to: `d${i}@prio.test`, subject: "Digest", text: "d" }, trx);
+    });
+    await enqueueMail({ idempotencyKey: `${prefix}:alert`, kind: "alert", to: "a@prio.test", subject: "Alert", text: "a" });
+    const claimed = await claimBatch(1, "prio-test");
+    try {
+      expect(claimed).toHaveLength(1);
+      expect((claimed[0] as { priority?: number }).priority).toBe(1);
+      expect(claimed[0].idempotency_key).not.toMatch(/:digest:/);
+    } finally {
+      await db("outbox").whereIn("id", claimed.map((r) => r.id)).update({ status: "queued", locked_until: null });
+      await db("outbox").where("idempotency_key", "like", `${prefix}:%`).delete();
+    }
   });
 });
