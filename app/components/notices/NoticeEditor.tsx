@@ -252,7 +252,14 @@ export function NoticeEditor({
           </details>
           <div className="grid gap-3 sm:grid-cols-2">
             <Field label="In force from (harbour time)" name="validFrom" type="datetime-local" defaultValue={str(values.validFrom)} error={errors.validFrom} />
-            <Field label="Until (harbour time)" name="validUntil" type="datetime-local" defaultValue={str(values.validUntil)} error={errors.validUntil} disabled={untilFurther} />
+            <Field
+              label="Until (harbour time)"
+              name="validUntil"
+              type="datetime-local"
+              defaultValue={str(values.validUntil)}
+              error={errors.validUntil}
+              hint={untilFurther ? "Leave empty while “until further notice” is ticked" : undefined}
+            />
           </div>
           <label className="inline-flex items-center gap-2">
             <input type="checkbox" name="untilFurtherNotice" checked={untilFurther} onChange={(e) => setUntilFurther(e.target.checked)} /> Until further notice

@@ -116,7 +116,9 @@ export function parseNoticeForm(raw: Record<string, unknown>, zone: string): Not
   if (fields.success) {
     validFrom = parseLocalDateTime(fields.data.validFrom, zone);
     if (!validFrom) errors.validFrom = "Give a valid date and time (e.g. 2026-12-01 14:00)";
-    if (!fields.data.untilFurtherNotice) {
+    if (fields.data.untilFurtherNotice && fields.data.validUntil) {
+      errors.validUntil = "Either give an end or tick “until further notice”, not both";
+    } else if (!fields.data.untilFurtherNotice) {
       if (!fields.data.validUntil) errors.validUntil = "Give an end, or tick “until further notice”";
       else {
         validUntil = parseLocalDateTime(fields.data.validUntil, zone);
