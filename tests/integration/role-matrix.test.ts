@@ -42,6 +42,20 @@ export const ACCESS: Record<string, Access> = {
   "routes/api.v1.reports.ts": { path: "/api/v1/reports", loader: "public", action: "public" },
   "routes/api.v1.uploads.ts": { path: "/api/v1/uploads", loader: "public", action: "public" },
   "routes/api.v1.uploads.complete.ts": { path: "/api/v1/uploads/00000000-0000-4000-8000-000000000000/complete", params: { id: "00000000-0000-4000-8000-000000000000" }, action: "public" },
+  // Notices: public reads (a missing id answers 404); drafting for officers and harbourmasters
+  // (publishing, cancelling and superseding are refused to officers inside the action, tested in
+  // tests/integration/notices-api.test.ts).
+  "routes/notices.tsx": { path: "/notices", loader: "public" },
+  "routes/notices.id.tsx": { path: "/notices/999999", params: { id: "999999" }, loader: "public" },
+  "routes/notices.gpx.ts": { path: "/notices/999999/gpx", params: { id: "999999" }, loader: "public" },
+  "routes/bulletin.tsx": { path: "/bulletin", loader: "public" },
+  "routes/feeds.tsx": { path: "/feeds", loader: "public" },
+  "routes/feeds.notices.atom.ts": { path: "/feeds/notices.atom", loader: "public" },
+  "routes/api.v1.notices.ts": { path: "/api/v1/notices", loader: "public" },
+  "routes/api.v1.notices.id.ts": { path: "/api/v1/notices/999999", params: { id: "999999" }, loader: "public" },
+  "routes/staff.notices.tsx": { path: "/staff/notices", loader: DRAFTERS },
+  "routes/staff.notices.new.tsx": { path: "/staff/notices/new", loader: DRAFTERS, action: DRAFTERS },
+  "routes/staff.notices.edit.tsx": { path: "/staff/notices/999999/edit", params: { id: "999999" }, loader: DRAFTERS, action: DRAFTERS },
 };
 void DRAFTERS;
 
