@@ -362,15 +362,23 @@ export async function linkReportsToNotice(reportIds: number[], noticeId: number,
 }
 
 /**
- * When a notice linked to reports is published: each linked report that is confirmed, not
- * confirmed or a duplicate closes "by a notice" (with its mail); others are left for triage.
+ * For the notices transaction (e.g. from onNoticeEvent on "published"): closes the reports
+ * linked to the notice at once, with the same steps as closeReportsOfPublishedNotices (an open
+ * report is confirmed first). Returns how many were closed.
  */
 export async function closeReportsForNotice(noticeId: number, actorUserId: number | null, trx: Knex.Transaction): Promise<number> {
-  const linked = await trx("notice_reports as nr").join("reports as r", "r.id", "nr.report_id").select("r.id", "r.status").where("nr.notice_id", noticeId);
+  const notice = await trx("notices").select("series_code", "year", "number").where({ id: noticeId }).first();
+  const ref = notice?.number ? formatSeriesNumber(notice.series_code, notice.year, notice.number) : `notice ${noticeId}`;
+  const viaList = (await trx("notice_reports").where({ notice_id: noticeId }).pluck("report_id")) as number[];
+  const viaDraft = (await trx("reports").where({ notice_id: noticeId }).pluck("id")) as number[];
   let n = 0;
-  for (const r of linked) {
-    if (!canTransition(r.status, "closed")) continue;
-    await applyStatusChange(r.id, { to: "closed", actorUserId, closedReason: "notice", noticeId }, trx);
+  for (const id of [...new Set([...viaList, ...viaDraft])]) {
+    const r = await trx("reports").select("status").where({ id }).forUpdate().first();
+    if (!r || r.status === "closed" || r.status === "duplicate") continue;
+    if (r.status === "new" || r.status === "acknowledged") {
+      await applyStatusChange(id, { to: "confirmed", actorUserId, note: `Confirmed by navigational warning ${ref}`, aidStatus: "off_station" }, trx);
+    }
+    await applyStatusChange(id, { to: "closed", actorUserId, closedReason: "notice", noticeId, note: `Navigational warning ${ref} published` }, trx);
     n++;
   }
   return n;

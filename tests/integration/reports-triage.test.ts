@@ -6,7 +6,7 @@ import { db } from "~/db.server";
 import { direct } from "~/lib/geo/geodesy";
 import { aidStatusHistory, getAid, importAids } from "~/models/aid.server";
 import { getNotice, publishNotice } from "~/models/notice.server";
-import { closeReportsOfPublishedNotices, reportEvents, triageQueue } from "~/models/report.server";
+import { closeReportsForNotice, closeReportsOfPublishedNotices, reportEvents, triageQueue } from "~/models/report.server";
 import * as aidPage from "~/routes/staff.reports.aid";
 import * as queuePage from "~/routes/staff.reports";
 import * as importPage from "~/routes/staff.aids.import";
@@ -164,6 +164,32 @@ describe("triage", () => {
       expect(last.body_text).toMatch(/navigational warning has been published/);
     }
     expect((await getAid(a.id))!.status).toBe("off_station");
+  });
+});
+
+describe("closing inside the notices transaction", () => {
+  it("closeReportsForNotice (for the publish hook) confirms and closes the linked reports in the caller's transaction", async () => {
+    const a = await makeAid(harbourId);
+    const r = await send(radar(a.code, 150));
+    const officer = await signedInAs("officer");
+    const res = await call(aidPage.action, {
+      path: `/staff/reports/aid/${a.id}`,
+      params: { aidId: String(a.id) },
+      method: "POST",
+      body: form({ intent: "draft-notice", aidId: String(a.id), reportIds: [String(r.id)] }),
+      cookie: officer.cookie,
+    });
+    const noticeId = Number(/\/staff\/notices\/(\d+)/.exec(res.location!)![1]);
+    // A rolled-back transaction leaves the report as it was.
+    await expect(
+      db.transaction(async (trx) => {
+        await closeReportsForNotice(noticeId, null, trx);
+        throw new Error("roll back");
+      }),
+    ).rejects.toThrow("roll back");
+    expect((await db("reports").where({ id: r.id }).first()).status).toBe("new");
+    expect(await db.transaction((trx) => closeReportsForNotice(noticeId, null, trx))).toBe(1);
+    expect((await reportEvents(r.id)).map((e) => e.toStatus)).toEqual(["new", "draft_notice", "confirmed", "closed"]);
   });
 });
 
