@@ -111,3 +111,17 @@ export function mutationsOf(valid: Json): fc.Arbitrary<unknown> {
 
 /** Number of runs per property: short by default; FUZZ_RUNS=500 for a long run. */
 export const RUNS = Number(process.env.FUZZ_RUNS ?? 12);
+
+/**
+ * fc.assert with a readable failure: fast-check's report repeats the (possibly 300 kB)
+ * counterexample; keep the first few kB of it.
+ */
+export async function check<Ts extends unknown[]>(property: fc.IAsyncPropertyWithHooks<Ts>, params: fc.Parameters<Ts> = {}): Promise<void> {
+  try {
+    await fc.assert(property, { numRuns: RUNS, endOnFailure: true, ...params });
+  } catch (e) {
+    const err = e as Error & { cause?: unknown };
+    const cause = err.cause instanceof Error ? `\n${err.cause.message}` : "";
+    throw new Error(`${err.message.slice(0, 1500)}…${cause.slice(0, 2500)}`);
+  }
+}
