@@ -622,8 +622,11 @@ export async function updateNotice(id: number, expectedVersion: number, input: N
     }
     const amending = status === "in_force";
     if (amending && actor?.role !== "harbourmaster") throw new NoticeError("Only the harbourmaster can amend a published notice.", "form", 403);
-    await checkBoundary(trx, row.harbour_id, input.parts, input.acceptOutside);
     const before = (await getNotice(id, trx, at))!;
+    // Saving an unchanged form (e.g. "Save and publish" on a colleague's draft) is not a change:
+    // no new version, no audit row, no amendment event.
+    if (sameContent(before, input)) return before;
+    await checkBoundary(trx, row.harbour_id, input.parts, input.acceptOutside);
     await trx("notices")
       .where({ id })
       .update({ ...noticeColumns(input), updated_by: actor?.id ?? null, updated_at: at, version: row.version + 1 });
@@ -633,6 +636,50 @@ export async function updateNotice(id: number, expectedVersion: number, input: N
     if (amending) await onNoticeEvent(trx, { kind: "amended", noticeId: id });
     return after;
   });
+}
+
+/** Does the submitted form say exactly what the notice already says? */
+function sameContent(n: NoticeView, input: NoticeInput): boolean {
+  const ms = (d: Date | string | null) => (d ? new Date(d).getTime() : null);
+  const a = {
+    title: n.title,
+    generalType: n.generalType,
+    detailTypes: [...n.detailTypes].sort(),
+    restrictions: [...n.restrictions].sort(),
+    urgency: n.urgency,
+    positionStatus: n.positionStatus,
+    validFrom: ms(n.validFrom),
+    validUntil: ms(n.validUntil),
+    generalArea: n.generalArea,
+    locality: n.locality,
+    charts: n.charts,
+    body: n.body,
+    relatedRefs: n.relatedRefs,
+    acceptOutside: n.outsideBoundaryAccepted,
+    aidIds: n.aids.map((x) => x.id).sort(),
+    reportIds: [...n.reportIds].sort(),
+    parts: n.parts.map((p) => [p.kind, p.crs, p.positionsText, p.radiusNm]),
+  };
+  const b = {
+    title: input.title,
+    generalType: input.generalType,
+    detailTypes: [...input.detailTypes].sort(),
+    restrictions: [...input.restrictions].sort(),
+    urgency: input.urgency,
+    positionStatus: input.positionStatus,
+    validFrom: ms(input.validFrom),
+    validUntil: ms(input.validUntil),
+    generalArea: input.generalArea,
+    locality: input.locality,
+    charts: input.charts,
+    body: input.body,
+    relatedRefs: input.relatedRefs,
+    acceptOutside: input.acceptOutside,
+    aidIds: [...new Set(input.aidIds)].sort(),
+    reportIds: [...new Set(input.reportIds)].sort(),
+    parts: input.parts.map((p) => [p.kind, p.crs, p.positionsText, p.radiusNm]),
+  };
+  return JSON.stringify(a) === JSON.stringify(b);
 }
 
 async function nextNumber(trx: Knex.Transaction, harbourId: number, year: number): Promise<number> {

@@ -105,3 +105,34 @@ test("officer drafts in ED50, harbourmaster publishes, the public sees it, then 
   await pub.goto(`/notices/${id}`);
   await expect(pub.getByTestId("notice-state")).toContainText("Reason: Survey completed and buoys recovered.");
 });
+
+test.describe("without JavaScript", () => {
+  test.use({ javaScriptEnabled: false });
+
+  test("the editor shows a self-crossing area as a field error, with everything typed kept", async ({ page }) => {
+    await signInNoJs(page, "officer2@kestrel-sound.example", "skerrow-officer-2026");
+    await page.goto("/staff/notices/new");
+    await page.getByLabel("Title (key subject)").fill("Crossed area test");
+    await page.getByLabel("Text (amplifying remarks)").fill("Text that must survive the error.");
+    const bowtie = "55 12.0N 003 01.0E\n55 12.6N 003 02.0E\n55 12.0N 003 02.0E\n55 12.6N 003 01.0E";
+    await page.getByLabel("Positions, one per line").fill(bowtie);
+    const [response] = await Promise.all([
+      page.waitForResponse((r) => r.url().includes("/staff/notices/new") && r.request().method() === "POST"),
+      page.getByRole("button", { name: "Save draft" }).click(),
+    ]);
+    expect(response.status()).toBe(400);
+    await expect(page.getByText("The area's edges cross each other")).toBeVisible();
+    await expect(page.getByLabel("Positions, one per line")).toHaveValue(bowtie);
+    await expect(page.getByLabel("Positions, one per line")).toHaveAttribute("aria-invalid", "true");
+    await expect(page.getByLabel("Title (key subject)")).toHaveValue("Crossed area test");
+    await expect(page.getByLabel("Text (amplifying remarks)")).toHaveValue("Text that must survive the error.");
+  });
+});
+
+async function signInNoJs(page: Page, email: string, password: string) {
+  await page.goto("/sign-in");
+  await page.getByLabel("E-mail address").fill(email);
+  await page.getByLabel("Password").fill(password);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await expect(page).not.toHaveURL(/\/sign-in/);
+}

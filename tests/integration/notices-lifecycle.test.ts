@@ -88,6 +88,16 @@ describe("notice lifecycle", () => {
     expect((await rejects(cancelNotice(draft.id, cancelled.version, "again", staff.harbourmaster))).status).toBe(409);
   });
 
+  it("saving an unchanged form is not a new version", async () => {
+    const d = await createDraft(harbour.id, noticeInput(), staff.officer);
+    const same = await updateNotice(d.id, d.version, noticeInput(), staff.harbourmaster);
+    expect(same.version).toBe(d.version);
+    expect((await listAudit(d.id)).map((a) => a.action)).toEqual(["created"]);
+    const changed = await updateNotice(d.id, d.version, noticeInput({ charts: "KS 102" }), staff.harbourmaster);
+    expect(changed.version).toBe(d.version + 1);
+    expect((await listAudit(d.id)).at(-1)!.changes.charts).toEqual(["KS 101", "KS 102"]);
+  });
+
   it("refuses to change the audit trail", async () => {
     const [row] = await db("notice_audit").select("id").limit(1);
     await expect(db("notice_audit").where({ id: row.id }).update({ action: "forged" })).rejects.toThrow(/append-only/);

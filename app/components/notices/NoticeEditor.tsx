@@ -96,7 +96,6 @@ function PartEditor({
         error={errors[`${prefix}.positions`]}
         hint="Any usual format: 55°12.360′N 003°02.200′E, 55 12.36N 3 02.2E, 55.206 3.0367 … For a grid: easting northing in metres."
         spellCheck={false}
-        aria-describedby={feedbackId}
         style={{ fontFamily: "var(--font-mono)" }}
       />
       {part.kind === "circle" ? (
