@@ -367,7 +367,8 @@ export async function linkReportsToNotice(reportIds: number[], noticeId: number,
  * report is confirmed first). Returns how many were closed.
  */
 export async function closeReportsForNotice(noticeId: number, actorUserId: number | null, trx: Knex.Transaction): Promise<number> {
-  const notice = await trx("notices").select("series_code", "year", "number").where({ id: noticeId }).first();
+  const notice = await trx("notices").select("series_code", "year", "number", "published_by").where({ id: noticeId }).first();
+  actorUserId ??= notice?.published_by ?? null;
   const ref = notice?.number ? formatSeriesNumber(notice.series_code, notice.year, notice.number) : `notice ${noticeId}`;
   const viaList = (await trx("notice_reports").where({ notice_id: noticeId }).pluck("report_id")) as number[];
   const viaDraft = (await trx("reports").where({ notice_id: noticeId }).pluck("id")) as number[];

@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import { enqueueMail } from "~/models/outbox.server";
+import { closeReportsForNotice } from "~/models/report.server";
 import { findAlertRecipients, getHarbourForMail, loadNoticesForMail } from "~/models/subscription.server";
 import { alertMail } from "./subscription-mail.server";
 
@@ -20,6 +21,8 @@ export async function onNoticeEvent(trx: Knex.Transaction, event: { kind: Notice
   if (!notice) throw new Error(`onNoticeEvent: notice ${event.noticeId} not found`);
   // The change's own time (the notices model sets updated_at to it), so digests follow it.
   await trx("notice_changes").insert({ notice_id: notice.id, kind: event.kind, version: notice.version, occurred_at: notice.updatedAt ?? new Date() });
+  // Discrepancy reports linked to the notice close with its publication (reports feature).
+  if (event.kind === "published") await closeReportsForNotice(event.noticeId, null, trx);
   if (notice.urgency !== "urgent" || !ALERT_KINDS.has(event.kind)) return { alerts: 0 };
   const harbour = await getHarbourForMail(notice.harbourId, trx);
   if (!harbour) return { alerts: 0 };
