@@ -31,6 +31,8 @@ function peakKb(pid: number): number {
   }
 }
 
+const load = () => readFileSync("/proc/loadavg", "utf8").split(" ").slice(0, 3).join(" ");
+const loadBefore = load();
 const services = await startTestServices();
 Object.assign(process.env, services.env, { NODE_ENV: "test" });
 const children: ChildProcess[] = [];
@@ -210,7 +212,8 @@ try {
   console.log(`[bench] digests built: ${SUBSCRIPTIONS} in ${result.buildAllS} s (${result.buildRatePerS}/s; goal < 10 s: ${buildS < 10 ? "met" : "NOT met"})`);
   console.log(`[bench] sent: ${expected} messages (avg ${result.avgMessageKb} kB) in ${Math.round(sendS * 100) / 100} s from first send, ${result.sendRatePerS}/s (goal ≥ 100/s: ${result.sendRatePerS >= 100 ? "met" : "NOT met"}); all sent ${result.allSentS} s after start; SMTP fake received ${received}`);
   console.log(`[bench] worker peak RSS: ${result.workerPeakRssMb.join(" MB, ")} MB (each holds one batch of ≤ 250 subscriptions)`);
-  console.log(JSON.stringify(result));
+  console.log(`[bench] machine load average (1, 5, 15 min): ${loadBefore} before, ${load()} after, on ${(await import("node:os")).cpus().length} cores`);
+  console.log(JSON.stringify({ ...result, loadBefore, loadAfter: load() }));
   await db.destroy();
 } finally {
   for (const c of children) if (c.exitCode === null) c.kill("SIGTERM");

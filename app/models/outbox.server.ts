@@ -89,7 +89,7 @@ export function backoffMs(attempts: number, baseMs = BACKOFF_BASE_MS, maxMs = BA
   return Math.min(maxMs, baseMs * 2 ** Math.max(0, attempts - 1));
 }
 
-export type ClaimOptions = { leaseMs?: number };
+export type ClaimOptions = { leaseMs?: number; /** Only mail of this priority or more urgent. */ maxPriority?: number };
 
 /**
  * Claims up to `limit` due messages: first queued ones whose time has come (alerts before other
@@ -101,9 +101,9 @@ export type ClaimOptions = { leaseMs?: number };
 export async function claimBatch(limit: number, workerId: string, db = defaultDb, opts: ClaimOptions = {}): Promise<OutboxRow[]> {
   return db.transaction(async (trx) => {
     const now = new Date();
-    const rows: OutboxRow[] = await trx("outbox")
-      .where({ status: "queued" })
-      .andWhere("run_at", "<=", now)
+    const fresh = trx("outbox").where({ status: "queued" }).andWhere("run_at", "<=", now);
+    if (opts.maxPriority !== undefined) fresh.andWhere("priority", "<=", opts.maxPriority);
+    const rows: OutboxRow[] = await fresh
       .orderBy([{ column: "priority" }, { column: "run_at" }, { column: "id" }])
       .limit(limit)
       .forUpdate()

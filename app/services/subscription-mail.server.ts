@@ -136,7 +136,8 @@ export function digestMail(sub: Subscription, harbour: HarbourForMail, items: Di
       textLines.push(`* [${CHANGE_LABELS[it.change]}]${n.urgency === "urgent" ? " [URGENT]" : ""} ${number} ${n.title}`);
       for (const p of it.positions) textLines.push(`    ${p}`);
       textLines.push(`    ${url}`);
-      html += `<p style="margin:0 0 12px"><span style="font-size:12px;font-weight:700;color:${it.change === "new" ? "#0b4f6c" : it.change === "amended" ? "#8a5a00" : "#4a5a66"};text-transform:uppercase">${escapeHtml(CHANGE_LABELS[it.change])}</span>${n.urgency === "urgent" ? ' <span style="font-size:12px;font-weight:700;color:#b3261e">URGENT</span>' : ""}<br><a href="${escapeHtml(url)}" style="color:#0f2530;font-weight:600">${escapeHtml(number)} ${escapeHtml(n.title)}</a>${it.positions.length ? `<br><span style="font-family:Consolas,Menlo,monospace;font-size:14px;color:#4a5a66">${it.positions.map(escapeHtml).join("<br>")}</span>` : ""}</p>`;
+      // Compact markup: a digest may list hundreds of notices, and every byte is stored, sent and parsed.
+      html += `<p style="margin:0 0 10px"><b style="color:${it.change === "new" ? "#0b4f6c" : it.change === "amended" ? "#8a5a00" : "#4a5a66"}">${CHANGE_LABELS[it.change].toUpperCase()}</b>${n.urgency === "urgent" ? ' <b style="color:#b3261e">URGENT</b>' : ""} <a href="${escapeHtml(url)}" style="color:#0f2530">${escapeHtml(number)} ${escapeHtml(n.title)}</a>${it.positions.length ? `<br><span style="color:#4a5a66">${it.positions.map(escapeHtml).join("<br>")}</span>` : ""}</p>`;
     }
     textLines.push("");
   }

@@ -11,6 +11,10 @@ export type WorkerJob = { name: string; everyMs: number; run: (ctx: { workerId: 
 
 const num = (v: string | undefined, fallback: number) => (v && Number.isFinite(Number(v)) ? Number(v) : fallback);
 
+// While this worker is building digests, it sends only mail more urgent than digests (alerts,
+// account and report mail), so the build finishes first and the digests go out after it.
+let buildingDigestsUntil = 0;
+
 export const jobs: WorkerJob[] = [
   {
     name: "outbox",
@@ -21,9 +25,18 @@ export const jobs: WorkerJob[] = [
         leaseMs: num(process.env.OUTBOX_LEASE_MS, 120_000),
         backoffBaseMs: num(process.env.OUTBOX_BACKOFF_BASE_MS, 15_000),
         backoffMaxMs: num(process.env.OUTBOX_BACKOFF_MAX_MS, 3_600_000),
+        maxPriority: Date.now() < buildingDigestsUntil ? 5 : undefined,
       }),
   },
-  { name: "digests", everyMs: num(process.env.DIGEST_POLL_MS, 30_000), run: () => runDigestBatch() },
+  {
+    name: "digests",
+    everyMs: num(process.env.DIGEST_POLL_MS, 30_000),
+    run: async () => {
+      const n = await runDigestBatch();
+      if (n > 0) buildingDigestsUntil = Date.now() + 5000;
+      return n;
+    },
+  },
   { name: "expire-notices", everyMs: num(process.env.EXPIRY_POLL_MS, 15_000), run: () => expireDueNotices() },
   { name: "lapse-unconfirmed-subscriptions", everyMs: 10 * 60_000, run: () => lapseUnconfirmed() },
   // Photos uploaded but never attached to a report (abandoned forms, failed submits).

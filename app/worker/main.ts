@@ -11,6 +11,8 @@ const only = process.env.WORKER_JOBS?.split(",").map((s) => s.trim()).filter(Boo
 const active = jobs.filter((j) => !only || only.includes(j.name));
 const nextRunAt = new Map<string, number>(active.map((j) => [j.name, 0]));
 let stopping = false;
+let peakRss = 0;
+let peakHeap = 0;
 
 async function loop() {
   console.log(`[worker ${workerId}] started: ${active.map((j) => j.name).join(", ")}`);
@@ -26,6 +28,9 @@ async function loop() {
         console.error(`[worker] ${job.name} failed: ${(error as Error).message ?? error}`);
       }
       if (done > 0) busy = true;
+      const { rss, heapUsed } = process.memoryUsage();
+      peakRss = Math.max(peakRss, rss);
+      peakHeap = Math.max(peakHeap, heapUsed);
       nextRunAt.set(job.name, done > 0 ? 0 : Date.now() + job.everyMs);
     }
     if (!busy && !stopping) {
@@ -35,7 +40,7 @@ async function loop() {
   }
   await db.destroy();
   resetWorkerTransport(); // pooled SMTP connections would keep the process alive
-  console.log(`[worker ${workerId}] stopped`);
+  console.log(`[worker ${workerId}] stopped (peak heap ${Math.round(peakHeap / 2 ** 20)} MB, peak RSS ${Math.round(peakRss / 2 ** 20)} MB)`);
   process.exit(0);
 }
 

@@ -10,6 +10,8 @@ export type OutboxOptions = {
   leaseMs?: number;
   backoffBaseMs?: number;
   backoffMaxMs?: number;
+  /** Only mail of this priority or more urgent (see priorityOf in the outbox model). */
+  maxPriority?: number;
   transport?: Transporter;
 };
 
@@ -39,7 +41,7 @@ async function deliver(row: OutboxRow, transport?: Transporter) {
  * unaccepted ones to be retried (after their lease runs out).
  */
 export async function runOutboxOnce(workerId: string, opts: OutboxOptions = {}): Promise<number> {
-  const rows = await claimBatch(opts.batchSize ?? BATCH_SIZE, workerId, undefined, { leaseMs: opts.leaseMs });
+  const rows = await claimBatch(opts.batchSize ?? BATCH_SIZE, workerId, undefined, { leaseMs: opts.leaseMs, maxPriority: opts.maxPriority });
   const transport = opts.transport;
   await Promise.all(
     rows.map(async (row) => {
