@@ -290,3 +290,13 @@ export async function listSubscriptionsForStaff(opts: { limit?: number; offset?:
   if (opts.status) q.where({ status: opts.status });
   return (await q).map(rowToSubscription);
 }
+
+/** The harbour's offline base map (GeoJSON) for the subscribe map, or null. */
+export async function getHarbourBasemap(harbourId: number, db: Db = defaultDb): Promise<{ type: "FeatureCollection"; features: unknown[] } | null> {
+  const r = await db("harbours").where({ id: harbourId }).first("basemap_geojson");
+  try {
+    return r?.basemap_geojson ? JSON.parse(r.basemap_geojson) : null;
+  } catch {
+    return null;
+  }
+}

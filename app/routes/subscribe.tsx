@@ -6,6 +6,8 @@ import { FormError } from "~/components/forms";
 import { SubscriptionFields, valuesFromSubmitted } from "~/components/subscriptions/SubscriptionForm";
 import { formToObject, parseSubscriptionForm } from "~/lib/subscriptions/form";
 import { getOptionalUser } from "~/services/auth.server";
+import { env } from "~/env.server";
+import { getHarbourBasemap } from "~/models/subscription.server";
 import { readForm } from "~/services/form.server";
 import { redirectWithToast } from "~/services/session.server";
 import { defaultHarbour, requestSubscription } from "~/services/subscriptions.server";
@@ -15,7 +17,11 @@ export const meta: Route.MetaFunction = () => [{ title: "Subscribe to notices ·
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await getOptionalUser(request);
   const harbour = await defaultHarbour();
-  return { harbour: { name: harbour.name, authorityName: harbour.authorityName, timeZone: harbour.timeZone }, email: user?.email ?? "" };
+  return {
+    harbour: { name: harbour.name, authorityName: harbour.authorityName, timeZone: harbour.timeZone },
+    email: user?.email ?? "",
+    map: { basemap: await getHarbourBasemap(harbour.id), tileUrl: env().MAP_TILE_URL ?? null },
+  };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -48,7 +54,7 @@ export default function Subscribe({ loaderData, actionData }: Route.ComponentPro
       </div>
       <Form method="post" className="card mt-6 space-y-6" noValidate>
         {actionData?.errors ? <FormError error="Please correct the fields marked below." /> : null}
-        <SubscriptionFields values={values} errors={actionData?.errors ?? {}} withEmail timeZone={loaderData.harbour.timeZone} harbourName={loaderData.harbour.name} />
+        <SubscriptionFields values={values} errors={actionData?.errors ?? {}} withEmail timeZone={loaderData.harbour.timeZone} harbourName={loaderData.harbour.name} map={loaderData.map} />
         <button type="submit" className="btn-primary" disabled={busy}>
           Subscribe
         </button>

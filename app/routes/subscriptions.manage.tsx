@@ -4,6 +4,8 @@ import { Caution } from "~/components/Caution";
 import { FormError } from "~/components/forms";
 import { SubscriptionFields, valuesFromSubmitted } from "~/components/subscriptions/SubscriptionForm";
 import { formToObject, parseSubscriptionForm } from "~/lib/subscriptions/form";
+import { env } from "~/env.server";
+import { getHarbourBasemap } from "~/models/subscription.server";
 import { readForm } from "~/services/form.server";
 import { changeSubscription, defaultHarbour, formValuesOf, subscriptionFromToken, unsubscribe } from "~/services/subscriptions.server";
 
@@ -15,7 +17,13 @@ export async function loader({ request }: Route.LoaderArgs) {
   const found = await subscriptionFromToken("manage", token);
   if (!found.ok) throw data({ error: found.message }, { status: 400 });
   const harbour = await defaultHarbour();
-  return { token: token!, values: formValuesOf(found.subscription), status: found.subscription.status, harbour: { name: harbour.name, timeZone: harbour.timeZone } };
+  return {
+    token: token!,
+    values: formValuesOf(found.subscription),
+    status: found.subscription.status,
+    harbour: { name: harbour.name, timeZone: harbour.timeZone },
+    map: { basemap: await getHarbourBasemap(harbour.id), tileUrl: env().MAP_TILE_URL ?? null },
+  };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -63,7 +71,7 @@ export default function ManageSubscription({ loaderData, actionData }: Route.Com
       <Form method="post" className="card mt-6 space-y-6" noValidate>
         {actionData && Object.keys(actionData.errors).length ? <FormError error="Please correct the fields marked below." /> : null}
         <input type="hidden" name="token" value={loaderData.token} />
-        <SubscriptionFields values={actionData && "values" in actionData && actionData.values ? { ...valuesFromSubmitted(actionData.values), email: loaderData.values.email } : loaderData.values} errors={actionData?.errors ?? {}} withEmail={false} timeZone={loaderData.harbour.timeZone} harbourName={loaderData.harbour.name} />
+        <SubscriptionFields values={actionData && "values" in actionData && actionData.values ? { ...valuesFromSubmitted(actionData.values), email: loaderData.values.email } : loaderData.values} errors={actionData?.errors ?? {}} withEmail={false} timeZone={loaderData.harbour.timeZone} harbourName={loaderData.harbour.name} map={loaderData.map} />
         <div className="flex flex-wrap gap-3">
           <button type="submit" name="intent" value="save" className="btn-primary" disabled={busy}>Save changes</button>
           <button type="submit" name="intent" value="end" className="btn-danger" disabled={busy}>End this subscription</button>

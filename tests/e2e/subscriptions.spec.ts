@@ -106,6 +106,22 @@ test("a link made for one purpose does not work for another", async ({ page }) =
   await expect(page.getByRole("heading", { name: "This link does not work" })).toBeVisible();
 });
 
+test("drawing a circle on the map fills the centre and radius fields", async ({ page }) => {
+  await page.goto("/subscribe");
+  const map = page.getByTestId("map");
+  await expect(map.locator("canvas").first()).toBeAttached({ timeout: 15_000 });
+  await page.getByRole("button", { name: "Draw a circle" }).click();
+  const box = (await map.boundingBox())!;
+  const cx = box.x + box.width / 2;
+  const cy = box.y + box.height / 2;
+  await page.mouse.click(cx, cy);
+  await page.mouse.move(cx + 60, cy, { steps: 5 });
+  await page.mouse.click(cx + 60, cy);
+  await expect(page.getByLabel("A circle around a position")).toBeChecked();
+  await expect(page.getByLabel("Centre (WGS 84)")).toHaveValue(/^\d{2}°\d{2}\.\d{2}′N 00\d°\d{2}\.\d{2}′E$/);
+  await expect(page.getByLabel("Radius (M)")).toHaveValue(/^\d+(\.\d+)?$/);
+});
+
 test.describe("without JavaScript", () => {
   test.use({ javaScriptEnabled: false });
 

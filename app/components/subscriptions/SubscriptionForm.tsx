@@ -1,9 +1,11 @@
 // The subscribe / manage form. Works without JavaScript: positions are typed as mariners write
 // them (one per line for a polygon); a map, where shown, only fills the same fields.
-import { useState, type ReactNode } from "react";
+import { useState } from "react";
+import type { Basemap } from "~/components/map/MapView";
 import { Field, Select, TextArea } from "~/components/forms";
 import { GENERAL_TYPES } from "~/lib/notices/vocabulary";
 import { WEEKDAYS } from "~/lib/subscriptions/schedule";
+import { SubscriptionMap, type AreaFields } from "./SubscriptionMap";
 
 export type SubscriptionFormValues = {
   email?: string;
@@ -24,16 +26,18 @@ export function SubscriptionFields({
   withEmail,
   timeZone,
   harbourName,
-  mapSlot,
+  map,
 }: {
   values: SubscriptionFormValues;
   errors: Record<string, string | undefined>;
   withEmail: boolean;
   timeZone: string;
   harbourName: string;
-  mapSlot?: ReactNode;
+  map?: { basemap: Basemap; tileUrl?: string | null };
 }) {
-  const [areaKind, setAreaKind] = useState(values.areaKind ?? "harbour");
+  const [area, setArea] = useState<AreaFields>({ areaKind: values.areaKind ?? "harbour", centre: values.centre ?? "", radiusNm: values.radiusNm ?? "", polygon: values.polygon ?? "" });
+  const areaKind = area.areaKind;
+  const update = (f: Partial<AreaFields>) => setArea((a) => ({ ...a, ...f }));
   const types = new Set(values.generalTypes ?? []);
   return (
     <>
@@ -49,7 +53,7 @@ export function SubscriptionFields({
           { v: "polygon", label: "A polygon (corners typed or drawn on the map)" },
         ].map((o) => (
           <label key={o.v} className="flex items-center gap-2">
-            <input type="radio" name="areaKind" value={o.v} defaultChecked={areaKind === o.v} onChange={() => setAreaKind(o.v)} />
+            <input type="radio" name="areaKind" value={o.v} checked={areaKind === o.v} onChange={() => update({ areaKind: o.v })} />
             {o.label}
           </label>
         ))}
@@ -59,13 +63,13 @@ export function SubscriptionFields({
           </p>
         ) : null}
         <div className={areaKind === "circle" ? "grid gap-3 sm:grid-cols-[1fr_10rem]" : "grid gap-3 sm:grid-cols-[1fr_10rem] opacity-70"}>
-          <Field label="Centre (WGS 84)" name="centre" className="position" placeholder="55°12.00′N 003°02.00′E" defaultValue={values.centre} error={errors.centre} hint="Degrees and minutes, decimal degrees or DMS; N/S E/W or signs." />
-          <Field label="Radius (M)" name="radiusNm" inputMode="decimal" placeholder="1.5" defaultValue={values.radiusNm} error={errors.radiusNm} hint="Nautical miles." />
+          <Field label="Centre (WGS 84)" name="centre" className="position" placeholder="55°12.00′N 003°02.00′E" value={area.centre} onChange={(e) => update({ centre: e.currentTarget.value })} error={errors.centre} hint="Degrees and minutes, decimal degrees or DMS; N/S E/W or signs." />
+          <Field label="Radius (M)" name="radiusNm" inputMode="decimal" placeholder="1.5" value={area.radiusNm} onChange={(e) => update({ radiusNm: e.currentTarget.value })} error={errors.radiusNm} hint="Nautical miles." />
         </div>
         <div className={areaKind === "polygon" ? "" : "opacity-70"}>
-          <TextArea label="Polygon corners (WGS 84), one position per line" name="polygon" rows={5} className="position" placeholder={"55°13.0′N 003°00.0′E\n55°13.0′N 003°04.0′E\n55°11.0′N 003°04.0′E\n55°11.0′N 003°00.0′E"} defaultValue={values.polygon} error={errors.polygon} hint="At least three corners in order around the area; the polygon is closed for you." />
+          <TextArea label="Polygon corners (WGS 84), one position per line" name="polygon" rows={5} className="position" placeholder={"55°13.0′N 003°00.0′E\n55°13.0′N 003°04.0′E\n55°11.0′N 003°04.0′E\n55°11.0′N 003°00.0′E"} value={area.polygon} onChange={(e) => update({ polygon: e.currentTarget.value })} error={errors.polygon} hint="At least three corners in order around the area; the polygon is closed for you." />
         </div>
-        {mapSlot}
+        {map ? <SubscriptionMap fields={area} onChange={update} basemap={map.basemap} tileUrl={map.tileUrl} /> : null}
       </fieldset>
 
       <fieldset>
