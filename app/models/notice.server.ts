@@ -360,7 +360,8 @@ export async function listRecentlyEnded(harbourId: number | undefined, days = 14
 
 /** The main statement of an API page (after the bbox step); the benchmark's baseline runs the same SQL. */
 export function apiQuery(f: NoticeFilter & { afterId?: number; limit: number }, db: Db = defaultDb, now = new Date()) {
-  // The bbox itself was applied by the bbox step (bboxIds).
+  // The bbox itself is applied by the bbox step (bboxIdsQuery → bboxIds), never here.
+  if (f.bbox && !f.bboxIds) throw new Error("apiQuery: run bboxIdsQuery()/noticeIdsInBbox() for the bbox first and pass the ids as bboxIds");
   const q = applyFilter(baseSelect(db), { ...f, bbox: undefined, status: f.status ?? "in_force" }, now, db);
   if (f.afterId) q.where("n.id", ">", f.afterId);
   return q.orderBy("n.id", "asc").limit(f.limit + 1);

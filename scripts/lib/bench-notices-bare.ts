@@ -1,6 +1,6 @@
 // The baseline of `npm run bench:notices`: a bare node:http listener with a mysql2 pool running
 // the same statements as GET /api/v1/notices?bbox=… — the bbox step (MBRIntersects, from
-// bboxIdsQuery()), the API page statement (apiQuery()'s SQL, passed in BENCH_MAIN_SQL), and the
+// bboxIdsQuery()), the API page statement (apiQuery()'s SQL; both passed in BENCH_SQL), and the
 // parts of the page — answering the rows as JSON. No framework, validation or formatting.
 import { createServer } from "node:http";
 import mysql from "mysql2/promise";
