@@ -86,7 +86,7 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   }
   return (
     <div className="mx-auto max-w-2xl py-12">
-      <p className="text-sm font-bold tracking-widest text-tide uppercase">Error {status}</p>
+      <p className="text-sm font-bold tracking-widest text-deep uppercase">Error {status}</p>
       <h1 className="mt-2 text-3xl font-bold">{title}</h1>
       <p className="mt-4 text-lg">{message}</p>
       <p className="mt-6">
