@@ -1,4 +1,5 @@
 import { Form, Link, data } from "react-router";
+import { Caution } from "~/components/Caution";
 import type { Route } from "./+types/staff.mail";
 import { describeArea } from "~/lib/subscriptions/area";
 import { describeSchedule } from "~/lib/subscriptions/schedule";
@@ -62,6 +63,7 @@ export default function StaffMail({ loaderData, actionData }: Route.ComponentPro
   return (
     <div className="space-y-8">
       <h1 className="text-2xl font-bold">Mail and subscribers</h1>
+      <Caution compact />
       {actionData && "error" in actionData ? <p role="alert" className="field-error">{actionData.error}</p> : null}
 
       <section className="card">

@@ -1,4 +1,5 @@
 import { Form, Link, data } from "react-router";
+import { Caution } from "~/components/Caution";
 import type { Route } from "./+types/subscribe.confirm";
 import { describeArea } from "~/lib/subscriptions/area";
 import { describeSchedule } from "~/lib/subscriptions/schedule";
@@ -30,6 +31,7 @@ export default function ConfirmSubscription({ loaderData, actionData }: Route.Co
     return (
       <div className="mx-auto max-w-lg">
         <h1 className="text-2xl font-bold">This link does not work</h1>
+        <div className="mt-4"><Caution compact /></div>
         <p className="mt-4" role="alert">{actionData.error}</p>
       </div>
     );
@@ -38,6 +40,7 @@ export default function ConfirmSubscription({ loaderData, actionData }: Route.Co
     return (
       <div className="mx-auto max-w-lg">
         <h1 className="text-2xl font-bold">Subscription confirmed</h1>
+        <div className="mt-4"><Caution compact /></div>
         <p className="mt-4" role="status">
           {loaderData.email} will receive {loaderData.urgentAlerts ? "urgent alerts and " : ""}
           {loaderData.schedule} for {loaderData.area}. Every message has a link to change or end it.
@@ -51,6 +54,7 @@ export default function ConfirmSubscription({ loaderData, actionData }: Route.Co
   return (
     <div className="mx-auto max-w-lg">
       <h1 className="text-2xl font-bold">Confirm your subscription</h1>
+        <div className="mt-4"><Caution compact /></div>
       <p className="mt-4">
         {loaderData.email}: {loaderData.urgentAlerts ? "urgent alerts, " : ""}
         {loaderData.schedule}, for {loaderData.area}.
@@ -67,6 +71,7 @@ export function ErrorBoundary() {
   return (
     <div className="mx-auto max-w-lg">
       <h1 className="text-2xl font-bold">This link does not work</h1>
+        <div className="mt-4"><Caution compact /></div>
       <p className="mt-4">This link is not valid or has expired. Links in our e-mails work for a limited time; subscribe again or use the link in a newer message.</p>
       <p className="mt-4"><Link to="/subscribe" className="btn-primary">Subscribe again</Link></p>
     </div>

@@ -1,4 +1,5 @@
 import { Form, Link, data } from "react-router";
+import { Caution } from "~/components/Caution";
 import type { Route } from "./+types/unsubscribe";
 import { describeArea } from "~/lib/subscriptions/area";
 import { readForm } from "~/services/form.server";
@@ -31,6 +32,7 @@ export default function Unsubscribe({ loaderData, actionData }: Route.ComponentP
     return (
       <div className="mx-auto max-w-lg">
         <h1 className="text-2xl font-bold">This link does not work</h1>
+        <div className="mt-4"><Caution compact /></div>
         <p className="mt-4" role="alert">{actionData.error}</p>
       </div>
     );
@@ -39,6 +41,7 @@ export default function Unsubscribe({ loaderData, actionData }: Route.ComponentP
     return (
       <div className="mx-auto max-w-lg">
         <h1 className="text-2xl font-bold">You are unsubscribed</h1>
+        <div className="mt-4"><Caution compact /></div>
         <p className="mt-4" role="status">
           {loaderData.email} will get no more alerts or digests for {loaderData.area}.
         </p>
@@ -49,6 +52,7 @@ export default function Unsubscribe({ loaderData, actionData }: Route.ComponentP
   return (
     <div className="mx-auto max-w-lg">
       <h1 className="text-2xl font-bold">Unsubscribe</h1>
+        <div className="mt-4"><Caution compact /></div>
       <p className="mt-4">
         Stop all alerts and digests to {loaderData.email} for {loaderData.area}?
       </p>
@@ -64,6 +68,7 @@ export function ErrorBoundary() {
   return (
     <div className="mx-auto max-w-lg">
       <h1 className="text-2xl font-bold">This link does not work</h1>
+        <div className="mt-4"><Caution compact /></div>
       <p className="mt-4">This link is not valid or has expired. Links in our e-mails work for a limited time; use the link in a newer message.</p>
     </div>
   );

@@ -8,7 +8,7 @@ import { direct } from "~/lib/geo/geodesy";
 import { parsePolygon } from "~/lib/subscriptions/area";
 import { BAD_TOKEN_MESSAGE, signToken } from "~/lib/subscriptions/tokens";
 import { cancelNotice, publishNotice, updateNotice } from "~/models/notice.server";
-import { getSubscription, type HarbourForMail } from "~/models/subscription.server";
+import { getSubscription, lapseUnconfirmed, type HarbourForMail } from "~/models/subscription.server";
 import { onNoticeEvent } from "~/services/notice-events.server";
 import { runOutboxOnce } from "~/worker/outbox";
 import * as subscribeRoute from "~/routes/subscribe";
@@ -192,6 +192,17 @@ describe("subscribe, confirm, manage", () => {
     expect(sub.nextDigestAt).not.toBeNull();
   });
 
+  it("lets an unconfirmed request lapse after 72 hours; its link then stops working", async () => {
+    const id = await subscribe(harbour, `late-${t}@subscribe.test`, { kind: "harbour" }, { status: "pending" });
+    await db("subscriptions").where({ id }).update({ created_at: new Date(Date.now() - 73 * 3600_000) });
+    const token = signToken(env().SESSION_SECRET, "confirm", id); // still signed and unexpired
+    expect(await lapseUnconfirmed()).toBeGreaterThanOrEqual(1);
+    expect(await db("subscriptions").where({ id }).first("status", "ended_reason")).toEqual({ status: "ended", ended_reason: "lapsed" });
+    const res = await call(confirmRoute.action, { path: "/subscribe/confirm", form: { token } });
+    expect(res.status).toBe(400);
+    expect(res.data.error).toBe(BAD_TOKEN_MESSAGE);
+  });
+
   it("refuses bad input with 400 and a message beside each field", async () => {
     const cases: [Record<string, string>, string, RegExp][] = [
       [{ email: `x-${t}@subscribe.test\r\nBcc: victim@elsewhere.test` }, "email", /line breaks/],
@@ -208,7 +219,7 @@ describe("subscribe, confirm, manage", () => {
       expect(r.data.errors[field], JSON.stringify(r.data.errors)).toMatch(message);
       expect(r.data.values.centre).toBe(form(over).centre); // what was typed comes back
     }
-    expect(await db("subscriptions").where("email", "like", `%-${t}@subscribe.test%`).whereNot({ email }).whereNot("email", "like", "nobody-%").count({ n: "*" })).toEqual([{ n: 0 }]);
+    expect(await db("subscriptions").where("email", "like", `%-${t}@subscribe.test%`).whereNot({ email }).whereNot("email", "like", "nobody-%").whereNot("email", "like", "late-%").count({ n: "*" })).toEqual([{ n: 0 }]);
   });
 
   it("changes and ends a subscription through the signed manage link", async () => {
