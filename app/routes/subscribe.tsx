@@ -34,8 +34,10 @@ export async function action({ request }: Route.ActionArgs) {
     const values = Object.fromEntries(Object.entries(raw).map(([k, v]) => [k, Array.isArray(v) ? v : String(v ?? "").slice(0, 12_000)]));
     return data({ errors: parsed.errors as Record<string, string | undefined>, values }, { status: 400 });
   }
-  await requestSubscription(parsed.data, harbour, user ? { id: user.id, email: user.email } : null);
-  // One answer for every address, known or not.
+  const outcome = await requestSubscription(parsed.data, harbour, user ? { id: user.id, email: user.email } : null);
+  // A signed-in boater's own (verified) address needs no confirmation mail.
+  if (outcome === "confirmed") return redirectWithToast(request, "/account/subscriptions", { kind: "success", message: "Subscription saved." });
+  // One answer for every other address, known or not.
   return redirectWithToast(request, "/subscribe/sent", { kind: "success", message: "Check your inbox: we have sent a link to confirm." });
 }
 

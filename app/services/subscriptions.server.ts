@@ -31,19 +31,20 @@ export async function defaultHarbour(): Promise<HarbourForMail> {
  * subscribed: a confirmation mail goes to the address, and only its owner can confirm. A
  * signed-in boater subscribing their own verified address needs no confirmation mail.
  */
-export async function requestSubscription(data: SubscriptionFormData, harbour: HarbourForMail, user: { id: number; email: string } | null): Promise<void> {
-  await db.transaction(async (trx) => {
+export async function requestSubscription(data: SubscriptionFormData, harbour: HarbourForMail, user: { id: number; email: string } | null): Promise<"confirmed" | "mailed"> {
+  return db.transaction(async (trx) => {
     const input = { ...data, harbourId: harbour.id, userId: user?.id ?? null };
     if (user && user.email.toLowerCase() === data.email) {
       await createConfirmedSubscription(input, harbour, new Date(), trx);
-      return;
+      return "confirmed" as const;
     }
     const [{ n }] = await trx("subscriptions").where({ email: data.email, status: "pending" }).where("created_at", ">", new Date(Date.now() - 24 * 3600_000)).count({ n: "*" });
-    if (Number(n) >= MAX_PENDING_PER_ADDRESS_PER_DAY) return; // quietly: no mail flood to a victim's address
+    if (Number(n) >= MAX_PENDING_PER_ADDRESS_PER_DAY) return "mailed" as const; // quietly: no mail flood to a victim's address
     const id = await createPendingSubscription(input, harbour, trx);
     const sub = (await getSubscription(id, trx))!;
     const mail = confirmationMail(sub, harbour);
     await enqueueMail({ idempotencyKey: `subscription-confirm:${id}`, kind: "subscription", to: data.email, ...mail }, trx);
+    return "mailed" as const;
   });
 }
 

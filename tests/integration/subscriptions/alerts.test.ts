@@ -8,7 +8,7 @@ import { direct } from "~/lib/geo/geodesy";
 import { parsePolygon } from "~/lib/subscriptions/area";
 import { BAD_TOKEN_MESSAGE, signToken } from "~/lib/subscriptions/tokens";
 import { cancelNotice, publishNotice, updateNotice } from "~/models/notice.server";
-import { getSubscription, lapseUnconfirmed, type HarbourForMail } from "~/models/subscription.server";
+import { explainAlertPrefilter, getSubscription, lapseUnconfirmed, type HarbourForMail } from "~/models/subscription.server";
 import { onNoticeEvent } from "~/services/notice-events.server";
 import { runOutboxOnce } from "~/worker/outbox";
 import * as subscribeRoute from "~/routes/subscribe";
@@ -101,6 +101,15 @@ describe("urgent alerts", () => {
     expect(header(m, "list-unsubscribe")).toMatch(/^List-Unsubscribe: <http:\/\/127\.0\.0\.1:3000\/unsubscribe\?token=[\w.-]+>, <mailto:unsubscribe@tidewire\.test\?subject=unsubscribe%20\d+>$/);
     expect(header(m, "list-unsubscribe-post")).toBe("List-Unsubscribe-Post: List-Unsubscribe=One-Click");
     expect(header(m, "message-id")).toBe(`Message-ID: <alert.${ids.circle}.${notice.id}.published.${notice.version}@tidewire.outbox>`);
+  });
+
+  it("prefilters with the SPATIAL index on the subscription area", async () => {
+    // Enough rows that a full scan is not the cheaper plan.
+    const rows = Array.from({ length: 300 }, (_, i) => ({ kind: "circle" as const, centre: { lat: 55.16 + (i % 20) * 0.005, lon: 2.94 + Math.floor(i / 20) * 0.014 }, radiusNm: 0.2 }));
+    for (const area of rows) await subscribe(harbour, `bulk-${t}@alerts.test`, area, { urgentAlerts: false });
+    await db.raw("ANALYZE TABLE subscriptions");
+    const plan = await explainAlertPrefilter([3.0, 55.2, 3.01, 55.21]);
+    expect(plan.map((r) => r.key)).toContain("subscriptions_area_spatial");
   });
 
   it("one-click unsubscribe (RFC 8058) ends the subscription in one POST without session or Origin", async () => {
