@@ -3,6 +3,8 @@
 // new route cannot ship without a decision about who may use it.
 import { beforeAll, beforeEach, describe, expect, it } from "vitest";
 import routes from "~/routes";
+import { db } from "~/db.server";
+import { seed as seedHarbour } from "../../seeds/02_harbour";
 import type { Role } from "~/lib/permissions";
 import { call, sessionCookieFor, signedInAs } from "../support/routes";
 
@@ -26,6 +28,17 @@ export const ACCESS: Record<string, Access> = {
   "routes/staff.tsx": { path: "/staff", loader: STAFF },
   "routes/admin.users.tsx": { path: "/admin/users", loader: ["admin"], action: ["admin"] },
   "routes/healthz.ts": { path: "/healthz", loader: "public" },
+  "routes/tools.tsx": { path: "/tools", loader: "public" },
+  "routes/api.v1.convert.ts": { path: "/api/v1/convert?from=EPSG:4230&to=EPSG:4326&position=55N%203E", loader: "public" },
+  "routes/api.v1.measure.ts": { path: "/api/v1/measure?from=55N%203E&to=55.1N%203E", loader: "public" },
+  "routes/api.v1.assessments.ts": { path: "/api/v1/assessments", loader: "public", action: "public" },
+  "routes/subscribe.tsx": { path: "/subscribe", loader: "public", action: "public" },
+  "routes/subscribe.sent.tsx": { path: "/subscribe/sent", loader: "public" },
+  "routes/subscribe.confirm.tsx": { path: "/subscribe/confirm?token=forged", loader: "public", action: "public" },
+  "routes/subscriptions.manage.tsx": { path: "/subscriptions/manage?token=forged", loader: "public", action: "public" },
+  "routes/unsubscribe.tsx": { path: "/unsubscribe?token=forged", loader: "public", action: "public" },
+  "routes/account.subscriptions.tsx": { path: "/account/subscriptions", loader: "signed-in", action: "signed-in" },
+  "routes/staff.mail.tsx": { path: "/staff/mail", loader: ["harbourmaster", "admin"], action: ["harbourmaster", "admin"] },
   "routes/not-found.tsx": { path: "/no-such-page", loader: "public", action: "public" },
   // Aids register and discrepancy reports (a missing id answers 404 to those allowed).
   "routes/report.tsx": { path: "/report", loader: "public", action: "public" },
@@ -84,6 +97,8 @@ describe("role × route matrix", () => {
   const cookies: Partial<Record<Tester, string>> = {};
   const userIds: Partial<Record<Tester, number>> = {};
   beforeAll(async () => {
+    // Public pages need the harbour (and its aids) to exist; other files may have made it.
+    if (!(await db("harbours").first())) await seedHarbour(db);
     for (const role of ["boater", "officer", "harbourmaster", "admin"] as const) userIds[role] = (await signedInAs(role)).user.id;
   });
   // Fresh sessions for every case: calling sign-out as each role must not affect the next case.
