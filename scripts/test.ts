@@ -125,6 +125,37 @@ try {
     if ((code !== 0 || r.errors.length > 0) && tally.failed === 0) tally.failed = 1;
     return tally;
   });
+  // Quality suites (issue 7), fast parts: QUALITY_FAST=1 keeps fuzzing short, skips the wapiti
+  // scan and checks a representative set of pages with axe. Long runs: npm run test:security,
+  // test:fuzz, test:faults, test:a11y, bench:load, bench:lighthouse.
+  const fastEnv = { ...process.env, QUALITY_FAST: "1", FUZZ_RUNS: process.env.FUZZ_RUNS ?? "4" };
+  for (const q of ["security", "fuzz", "faults"]) {
+    await suite(`quality: ${q} (vitest, fast)`, async () => {
+      const out = join(reports, `quality-${q}.json`);
+      const code = await exec(
+        process.execPath,
+        [bin("vitest", "vitest.mjs"), "run", "--config", `tests/${q}/vitest.config.ts`, "--reporter=default", "--reporter=json", `--outputFile.json=${out}`],
+        fastEnv,
+      );
+      const r = readJson<{ numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number }>(out);
+      if (!r) throw new Error(`no report (exit ${code})`);
+      const tally = { passed: r.numPassedTests, failed: r.numFailedTests, skipped: r.numPendingTests + r.numTodoTests };
+      if (code !== 0 && tally.failed === 0) tally.failed = 1;
+      return tally;
+    });
+  }
+  await suite("quality: a11y (playwright, fast)", async () => {
+    const out = join(reports, "quality-a11y.json");
+    const code = await exec(process.execPath, [bin("@playwright/test", "cli.js"), "test", "--config", "tests/a11y/playwright.config.ts", "--reporter=list,json"], {
+      ...fastEnv,
+      PLAYWRIGHT_JSON_OUTPUT_NAME: out,
+    });
+    const r = readJson<{ stats: { expected: number; unexpected: number; flaky: number; skipped: number }; errors: unknown[] }>(out);
+    if (!r) throw new Error(`no report (exit ${code})`);
+    const tally = { passed: r.stats.expected + r.stats.flaky, failed: r.stats.unexpected, skipped: r.stats.skipped };
+    if ((code !== 0 || r.errors.length > 0) && tally.failed === 0) tally.failed = 1;
+    return tally;
+  });
 } finally {
   rmSync(reports, { recursive: true, force: true });
 }

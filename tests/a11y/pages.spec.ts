@@ -10,21 +10,22 @@ import { fixtures, type Fixtures } from "../security/fixtures";
 const TAGS = ["wcag2a", "wcag2aa", "wcag21a", "wcag21aa"];
 
 /** `status`: what the page answers (the default, below 400; error pages say theirs). */
-type PageCase = { path: string | ((f: Fixtures) => string | undefined); as: Tester; name?: string; status?: number[]; then?: (page: Page) => Promise<void> };
+/** `fast`: part of the short run inside `npm test` (QUALITY_FAST=1); the full list otherwise. */
+type PageCase = { path: string | ((f: Fixtures) => string | undefined); as: Tester; name?: string; status?: number[]; fast?: true; then?: (page: Page) => Promise<void> };
 const BAD_TOKEN = [200, 400, 404, 410];
 
 const PAGES: PageCase[] = [
   // Public
-  { path: "/", as: "anonymous" },
+  { path: "/", as: "anonymous", fast: true },
   { path: "/notices", as: "anonymous" },
-  { path: (f) => (f.noticeId ? `/notices/${f.noticeId}` : undefined), as: "anonymous", name: "/notices/:id" },
+  { path: (f) => (f.noticeId ? `/notices/${f.noticeId}` : undefined), as: "anonymous", name: "/notices/:id", fast: true },
   { path: "/bulletin", as: "anonymous" },
   { path: "/feeds", as: "anonymous" },
-  { path: "/report", as: "anonymous" },
-  { path: "/subscribe", as: "anonymous" },
+  { path: "/report", as: "anonymous", fast: true },
+  { path: "/subscribe", as: "anonymous", fast: true },
   { path: "/subscribe/sent", as: "anonymous" },
-  { path: "/tools", as: "anonymous" },
-  { path: "/sign-in", as: "anonymous" },
+  { path: "/tools", as: "anonymous", fast: true },
+  { path: "/sign-in", as: "anonymous", fast: true },
   { path: "/sign-up", as: "anonymous" },
   { path: "/forgot-password", as: "anonymous" },
   { path: "/reset-password?token=not-a-token", as: "anonymous", status: BAD_TOKEN },
@@ -32,7 +33,7 @@ const PAGES: PageCase[] = [
   { path: "/verify-email?token=not-a-token", as: "anonymous", status: BAD_TOKEN },
   { path: "/unsubscribe?token=not-a-token", as: "anonymous", status: BAD_TOKEN },
   { path: "/subscriptions/manage?token=not-a-token", as: "anonymous", status: BAD_TOKEN },
-  { path: "/no-such-page", as: "anonymous", name: "404 page", status: [404] },
+  { path: "/no-such-page", as: "anonymous", name: "404 page", status: [404], fast: true },
   {
     path: "/sign-up",
     as: "anonymous",
@@ -50,23 +51,23 @@ const PAGES: PageCase[] = [
   },
   // Boater
   { path: "/", as: "boater", name: "/ (signed in)" },
-  { path: "/account", as: "boater" },
+  { path: "/account", as: "boater", fast: true },
   { path: "/account/subscriptions", as: "boater" },
   { path: "/account/reports", as: "boater" },
   { path: "/report", as: "boater", name: "/report (signed in)" },
   // Staff
   { path: "/staff", as: "officer" },
   { path: "/staff/notices", as: "officer" },
-  { path: "/staff/notices/new", as: "officer" },
+  { path: "/staff/notices/new", as: "officer", fast: true },
   { path: (f) => (f.draftNoticeId ? `/staff/notices/${f.draftNoticeId}/edit` : undefined), as: "harbourmaster", name: "/staff/notices/:id/edit" },
-  { path: "/staff/reports", as: "officer" },
+  { path: "/staff/reports", as: "officer", fast: true },
   { path: (f) => (f.reportId ? `/reports/${f.reportId}` : undefined), as: "officer", name: "/reports/:id (staff)" },
   { path: (f) => (f.aidId ? `/staff/reports/aid/${f.aidId}` : undefined), as: "officer", name: "/staff/reports/aid/:aidId" },
   { path: "/staff/aids", as: "officer" },
   { path: "/staff/aids/import", as: "officer" },
   { path: (f) => (f.aidId ? `/staff/aids/${f.aidId}` : undefined), as: "officer", name: "/staff/aids/:aidId" },
   { path: "/staff/mail", as: "harbourmaster" },
-  { path: "/admin/users", as: "admin" },
+  { path: "/admin/users", as: "admin", fast: true },
 ];
 
 async function contextFor(browser: Browser, as: Tester) {
@@ -84,7 +85,7 @@ test.beforeAll(async () => {
   fx = await fixtures(qdb());
 });
 
-for (const c of PAGES) {
+for (const c of process.env.QUALITY_FAST === "1" ? PAGES.filter((p) => p.fast) : PAGES) {
   const title = c.name ?? (typeof c.path === "string" ? c.path : "page");
   test(`${title} as ${c.as}: no WCAG 2.1 A/AA violations`, async ({ browser }) => {
     const path = typeof c.path === "function" ? c.path(fx) : c.path;
