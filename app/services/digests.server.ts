@@ -8,7 +8,7 @@ import { positionLines, summariseChanges, type ChangeKind, type DigestItem } fro
 import { digestPeriodKey, nextDigestAt } from "~/lib/subscriptions/schedule";
 import { enqueueMails, type OutboxMail } from "~/models/outbox.server";
 import { getHarbourForMail, loadNoticesForMail, rowToSubscription, type HarbourForMail, type NoticeForMail, type Subscription } from "~/models/subscription.server";
-import { digestMail, type MailParts } from "./subscription-mail.server";
+import { digestMail, type DigestFragments, type MailParts } from "./subscription-mail.server";
 
 export const DIGEST_BATCH_SIZE = 250;
 
@@ -103,6 +103,7 @@ export async function runDigestBatch(opts: { now?: Date; batchSize?: number; db?
     // Every subscription with the same schedule and slot shares its period key and next slot
     // (luxon is the slow part of building a digest; 10,000 subscriptions have few schedules).
     const scheduleCache = new Map<string, { periodKey: string; next: Date | null }>();
+    const fragments: DigestFragments = new Map();
     const mails: OutboxMail[] = [];
     const runs: Record<string, unknown>[] = [];
     const moves = new Map<string, number[]>();
@@ -122,7 +123,7 @@ export async function runDigestBatch(opts: { now?: Date; batchSize?: number; db?
       const items = sub.digest.cadence === "none" ? [] : itemsFor(sub, changes, w.from, w.to, cache);
       const key = `digest:${sub.id}:${periodKey}`;
       if (items.length > 0) {
-        const mail = digestMail(sub, harbour, items, w);
+        const mail = digestMail(sub, harbour, items, w, fragments);
         mails.push({ idempotencyKey: key, kind: "digest", to: sub.email, ...mail });
       }
       runs.push({ subscription_id: sub.id, period_key: periodKey, window_from: w.from, window_to: w.to, item_count: items.length, outbox_key: items.length ? key : null });

@@ -28,8 +28,8 @@ function mailtoAddress(): string {
 }
 
 /** RFC 2369 List-Unsubscribe with an https URL and a mailto, and RFC 8058 one-click POST. */
-export function unsubscribeHeaders(subscriptionId: number): Record<string, string> {
-  const url = linkWithToken("/unsubscribe", "unsubscribe", subscriptionId);
+export function unsubscribeHeaders(subscriptionId: number, unsubscribeUrl?: string): Record<string, string> {
+  const url = unsubscribeUrl ?? linkWithToken("/unsubscribe", "unsubscribe", subscriptionId);
   const mailto = `mailto:${mailtoAddress()}?subject=${encodeURIComponent(`unsubscribe ${subscriptionId}`)}`;
   return {
     "List-Unsubscribe": `<${url}>, <${mailto}>`,
@@ -46,6 +46,7 @@ function footer(sub: Subscription, harbour: HarbourForMail) {
   const unsub = linkWithToken("/unsubscribe", "unsubscribe", sub.id);
   const why = `You receive this because ${sub.email} subscribed to notices for ${describeArea(sub.area, harbour.name)}.`;
   return {
+    unsubscribeUrl: unsub,
     text: `${why}\nChange your subscription: ${manage}\nUnsubscribe: ${unsub}\n\nTidewire informs; it does not replace official charts, official notices to mariners or a proper lookout.`,
     html: `<br><br>${escapeHtml(why)}<br><a href="${escapeHtml(manage)}" style="color:#0b4f6c">Change your subscription</a> · <a href="${escapeHtml(unsub)}" style="color:#0b4f6c">Unsubscribe</a>`,
   };
@@ -116,10 +117,23 @@ ${positions.length ? `<tr><td style="padding:2px 12px 2px 0;color:#4a5a66;vertic
 <p style="margin:0 0 8px">${button(url, "Read the notice")}</p>`,
     f.html,
   );
-  return { subject, text, html, headers: unsubscribeHeaders(sub.id) };
+  return { subject, text, html, headers: unsubscribeHeaders(sub.id, f.unsubscribeUrl) };
 }
 
-export function digestMail(sub: Subscription, harbour: HarbourForMail, items: DigestItem[], window: { from: Date; to: Date }): MailParts {
+/** Rendered text and HTML of one digest line, reusable across every digest of a batch. */
+export type DigestFragments = Map<string, { text: string; html: string }>;
+
+function digestLine(it: DigestItem): { text: string; html: string } {
+  const n = it.notice;
+  const url = absoluteUrl(`/notices/${n.id}`);
+  const number = n.seriesNumber ?? `Notice ${n.id}`;
+  const text = [`* [${CHANGE_LABELS[it.change]}]${n.urgency === "urgent" ? " [URGENT]" : ""} ${number} ${n.title}`, ...it.positions.map((p) => `    ${p}`), `    ${url}`].join("\n");
+  // Compact markup: a digest may list hundreds of notices, and every byte is stored, sent and parsed.
+  const html = `<p style="margin:0 0 10px"><b style="color:${it.change === "new" ? "#0b4f6c" : it.change === "amended" ? "#8a5a00" : "#4a5a66"}">${CHANGE_LABELS[it.change].toUpperCase()}</b>${n.urgency === "urgent" ? ' <b style="color:#b3261e">URGENT</b>' : ""} <a href="${escapeHtml(url)}" style="color:#0f2530">${escapeHtml(number)} ${escapeHtml(n.title)}</a>${it.positions.length ? `<br><span style="color:#4a5a66">${it.positions.map(escapeHtml).join("<br>")}</span>` : ""}</p>`;
+  return { text, html };
+}
+
+export function digestMail(sub: Subscription, harbour: HarbourForMail, items: DigestItem[], window: { from: Date; to: Date }, fragments: DigestFragments = new Map()): MailParts {
   const groups = groupDigest(items);
   const cadence = sub.digest.cadence === "weekly" ? "Weekly" : "Daily";
   const subject = `${cadence} digest: ${items.length} change${items.length === 1 ? "" : "s"} to ${harbour.name} notices`;
@@ -130,20 +144,20 @@ export function digestMail(sub: Subscription, harbour: HarbourForMail, items: Di
     textLines.push(g.label.toUpperCase());
     html += `<h2 style="margin:20px 0 8px;font-size:17px;color:#0b4f6c;border-bottom:1px solid #d5e0e5;padding-bottom:4px">${escapeHtml(g.label)}</h2>`;
     for (const it of g.items) {
-      const n = it.notice;
-      const url = absoluteUrl(`/notices/${n.id}`);
-      const number = n.seriesNumber ?? `Notice ${n.id}`;
-      textLines.push(`* [${CHANGE_LABELS[it.change]}]${n.urgency === "urgent" ? " [URGENT]" : ""} ${number} ${n.title}`);
-      for (const p of it.positions) textLines.push(`    ${p}`);
-      textLines.push(`    ${url}`);
-      // Compact markup: a digest may list hundreds of notices, and every byte is stored, sent and parsed.
-      html += `<p style="margin:0 0 10px"><b style="color:${it.change === "new" ? "#0b4f6c" : it.change === "amended" ? "#8a5a00" : "#4a5a66"}">${CHANGE_LABELS[it.change].toUpperCase()}</b>${n.urgency === "urgent" ? ' <b style="color:#b3261e">URGENT</b>' : ""} <a href="${escapeHtml(url)}" style="color:#0f2530">${escapeHtml(number)} ${escapeHtml(n.title)}</a>${it.positions.length ? `<br><span style="color:#4a5a66">${it.positions.map(escapeHtml).join("<br>")}</span>` : ""}</p>`;
+      const key = `${it.notice.id}:${it.change}`;
+      let line = fragments.get(key);
+      if (!line) {
+        line = digestLine(it);
+        fragments.set(key, line);
+      }
+      textLines.push(line.text);
+      html += line.html;
     }
     textLines.push("");
   }
   const f = footer(sub, harbour);
   textLines.push("— ", f.text);
-  return { subject, text: textLines.join("\n"), html: mailLayout(`${cadence} digest`, html, f.html), headers: unsubscribeHeaders(sub.id) };
+  return { subject, text: textLines.join("\n"), html: mailLayout(`${cadence} digest`, html, f.html), headers: unsubscribeHeaders(sub.id, f.unsubscribeUrl) };
 }
 
 /** Position of a circle's centre for pages (re-exported for the routes). */
