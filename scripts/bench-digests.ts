@@ -181,8 +181,15 @@ try {
   let sentAt = 0;
   let firstSendAt = 0;
   const deadline = Date.now() + 10 * 60_000;
+  let lastReport = 0;
   for (;;) {
     samplePeaks();
+    if (process.env.BENCH_PROGRESS && Date.now() - lastReport > 1000) {
+      lastReport = Date.now();
+      const runs = await count(() => db("digest_runs").count({ n: "*" }));
+      const sentNow = await count(() => db("outbox").where({ kind: "digest", status: "sent" }).count({ n: "*" }));
+      console.log(`[bench] +${((Date.now() - start) / 1000).toFixed(1)} s: ${runs} built, ${sentNow} sent`);
+    }
     if (!builtAt && (await count(() => db("digest_runs").count({ n: "*" }))) >= SUBSCRIPTIONS) {
       builtAt = Date.now();
       expected = await count(() => db("outbox").where({ kind: "digest" }).count({ n: "*" }));

@@ -33,7 +33,8 @@ export const jobs: WorkerJob[] = [
     everyMs: num(process.env.DIGEST_POLL_MS, 30_000),
     run: async () => {
       const n = await runDigestBatch();
-      if (n > 0) buildingDigestsUntil = Date.now() + 5000;
+      // Nothing left to build: digests may go out at once.
+      buildingDigestsUntil = n > 0 ? Date.now() + 5000 : 0;
       return n;
     },
   },
