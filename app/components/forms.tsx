@@ -6,15 +6,21 @@ function describedBy(id: string, error?: string, hint?: ReactNode) {
   return [error ? `${id}-error` : null, hint ? `${id}-hint` : null].filter(Boolean).join(" ") || undefined;
 }
 
-/** A labelled input with its hint and error beside it (works without JavaScript). */
-export function Field({ label, name, error, hint, className, ...input }: Common & InputHTMLAttributes<HTMLInputElement>) {
+/** Label, hint and error around one control; the control gets its id and aria attributes. */
+function FieldShell({
+  label,
+  error,
+  hint,
+  className,
+  children,
+}: Omit<Common, "name"> & { children: (a11y: { id: string; "aria-invalid"?: true; "aria-describedby"?: string }) => ReactNode }) {
   const id = useId();
   return (
     <div className={className}>
       <label htmlFor={id} className="field-label">
         {label}
       </label>
-      <input id={id} name={name} className="field-input" aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, error, hint)} {...input} />
+      {children({ id, "aria-invalid": error ? true : undefined, "aria-describedby": describedBy(id, error, hint) })}
       {hint ? (
         <p id={`${id}-hint`} className="field-hint">
           {hint}
@@ -29,25 +35,20 @@ export function Field({ label, name, error, hint, className, ...input }: Common 
   );
 }
 
-export function TextArea({ label, name, error, hint, className, ...input }: Common & TextareaHTMLAttributes<HTMLTextAreaElement>) {
-  const id = useId();
+/** A labelled input with its hint and error beside it (works without JavaScript). */
+export function Field({ label, name, error, hint, className, ...input }: Common & InputHTMLAttributes<HTMLInputElement>) {
   return (
-    <div className={className}>
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
-      <textarea id={id} name={name} className="field-input" aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, error, hint)} {...input} />
-      {hint ? (
-        <p id={`${id}-hint`} className="field-hint">
-          {hint}
-        </p>
-      ) : null}
-      {error ? (
-        <p id={`${id}-error`} className="field-error" role="alert">
-          {error}
-        </p>
-      ) : null}
-    </div>
+    <FieldShell label={label} error={error} hint={hint} className={className}>
+      {(a11y) => <input name={name} className="field-input" {...a11y} {...input} />}
+    </FieldShell>
+  );
+}
+
+export function TextArea({ label, name, error, hint, className, ...input }: Common & TextareaHTMLAttributes<HTMLTextAreaElement>) {
+  return (
+    <FieldShell label={label} error={error} hint={hint} className={className}>
+      {(a11y) => <textarea name={name} className="field-input" {...a11y} {...input} />}
+    </FieldShell>
   );
 }
 
@@ -60,30 +61,18 @@ export function Select({
   options,
   ...input
 }: Common & SelectHTMLAttributes<HTMLSelectElement> & { options: ReadonlyArray<{ value: string; label: string }> }) {
-  const id = useId();
   return (
-    <div className={className}>
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
-      <select id={id} name={name} className="field-input" aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, error, hint)} {...input}>
-        {options.map((o) => (
-          <option key={o.value} value={o.value}>
-            {o.label}
-          </option>
-        ))}
-      </select>
-      {hint ? (
-        <p id={`${id}-hint`} className="field-hint">
-          {hint}
-        </p>
-      ) : null}
-      {error ? (
-        <p id={`${id}-error`} className="field-error" role="alert">
-          {error}
-        </p>
-      ) : null}
-    </div>
+    <FieldShell label={label} error={error} hint={hint} className={className}>
+      {(a11y) => (
+        <select name={name} className="field-input" {...a11y} {...input}>
+          {options.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </select>
+      )}
+    </FieldShell>
   );
 }
 
