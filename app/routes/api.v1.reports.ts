@@ -4,14 +4,16 @@ import type { Route } from "./+types/api.v1.reports";
 import { jsonError } from "~/lib/http";
 import { getDefaultHarbour } from "~/models/harbour.server";
 import { getOptionalUser } from "~/services/auth.server";
+import { enforceRateLimit } from "~/services/rate-limit.server";
 import { submitReport } from "~/services/report-submit.server";
 
 export async function loader() {
   return jsonError("Send a report with POST and a JSON body", undefined, 405, { Allow: "POST" });
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   if (request.method !== "POST") return jsonError("Use POST", undefined, 405, { Allow: "POST" });
+  await enforceRateLimit("report", request, context);
   if (!(request.headers.get("Content-Type") ?? "").startsWith("application/json")) {
     return jsonError("Send the report as JSON (Content-Type: application/json)", "Content-Type", 415);
   }

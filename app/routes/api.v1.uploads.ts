@@ -7,6 +7,7 @@
 // removed by the worker after some hours.
 import { z } from "zod";
 import type { Route } from "./+types/api.v1.uploads";
+import { enforceRateLimit } from "~/services/rate-limit.server";
 import { jsonError } from "~/lib/http";
 import { getDefaultHarbour } from "~/models/harbour.server";
 import { createPresignedUpload, storeProcessedPhoto, uploadBody } from "~/models/photo.server";
@@ -22,8 +23,9 @@ export async function loader() {
   return jsonError("Send a photo with POST (multipart field \"photo\"), or POST JSON { contentType } for a presigned upload", undefined, 405, { Allow: "POST" });
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   if (request.method !== "POST") return jsonError("Use POST", undefined, 405, { Allow: "POST" });
+  await enforceRateLimit("upload", request, context);
   const user = await getOptionalUser(request);
   const harbour = await getDefaultHarbour();
   const zone = harbour?.timeZone ?? "Europe/London";

@@ -3,6 +3,7 @@ import { data, Form, useNavigation } from "react-router";
 import type { Route } from "./+types/report";
 import { Caution } from "~/components/Caution";
 import { Field, FormError, Select, TextArea } from "~/components/forms";
+import { rateLimited } from "~/services/rate-limit.server";
 import { PhotoUploader, type UploadedPhoto } from "~/components/reports/PhotoUploader";
 import { AssessmentSummary, type PreviewState } from "~/components/reports/AssessmentSummary";
 import { ReportMap } from "~/components/reports/ReportMap";
@@ -66,7 +67,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 type ActionFailure = { errors: Record<string, string | undefined>; values: Record<string, string>; uploads: UploadedPhoto[] };
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const user = await getOptionalUser(request);
   const harbour = await getDefaultHarbour();
   if (!harbour) throw data({ error: "No harbour is set up yet." }, { status: 404 });
@@ -77,6 +78,8 @@ export async function action({ request }: Route.ActionArgs) {
   const uploads: UploadedPhoto[] = uploadIds.map((id) => ({ id, name: "photo", thumbUrl: `/photos/${id}/thumb`, exif: { lat: null, lon: null, takenAt: null } }));
   const failure = (status: number, errors: Record<string, string | undefined>) => data<ActionFailure>({ errors, values, uploads }, { status });
 
+  const limited = await rateLimited("report", request, context);
+  if (limited) return data<ActionFailure>({ errors: { form: limited.message }, values, uploads }, { status: 429, headers: { "Retry-After": String(limited.retryAfterS) } });
   if (files.length + uploadIds.length > MAX_PHOTOS_PER_REPORT) {
     return failure(400, { photos: `At most ${MAX_PHOTOS_PER_REPORT} photos per report (you added ${files.length + uploadIds.length}).` });
   }

@@ -1,6 +1,7 @@
 // Calling route modules' loaders and actions directly with real Request objects, against the
 // real test database. Thrown responses (redirects, 403/404 data) are caught and normalised.
 import { RouterContextProvider } from "react-router";
+import { clientAddressContext } from "~/context";
 import { createUser } from "~/models/user.server";
 import type { Role } from "~/lib/permissions";
 import { commitSession, sessionStorage } from "~/services/session.server";
@@ -34,7 +35,7 @@ async function normalise(value: unknown): Promise<RouteResult> {
 
 export async function call(
   handler: Handler | undefined,
-  opts: { path: string; method?: string; form?: Record<string, string>; body?: BodyInit; cookie?: string; params?: Record<string, string>; headers?: Record<string, string> },
+  opts: { path: string; address?: string; method?: string; form?: Record<string, string>; body?: BodyInit; cookie?: string; params?: Record<string, string>; headers?: Record<string, string> },
 ): Promise<RouteResult> {
   if (!handler) throw new Error(`no handler for ${opts.path}`);
   const headers = new Headers(opts.headers);
@@ -46,7 +47,9 @@ export async function call(
   }
   const request = new Request(BASE + opts.path, { method: opts.method ?? (body ? "POST" : "GET"), headers, body });
   try {
-    return await normalise(await handler({ request, params: opts.params ?? {}, context: new RouterContextProvider() }));
+    const context = new RouterContextProvider();
+    if (opts.address) context.set(clientAddressContext, opts.address);
+    return await normalise(await handler({ request, params: opts.params ?? {}, context }));
   } catch (thrown) {
     if (thrown instanceof Error) throw thrown;
     return normalise(thrown);
