@@ -207,6 +207,16 @@ try {
   }
   samplePeaks();
   if (!sentAt) sentAt = Date.now();
+  // An urgent notice in the middle of the harbour, published while every subscriber wants alerts:
+  // how long the publishing transaction takes with the alerts queued inside it.
+  await db("subscriptions").where({ harbour_id: harbourId }).update({ urgent_alerts: true });
+  const urgentPart = partFromEntered("point", "EPSG:4326", "55.2050 3.0450", [[3.045, 55.205]]);
+  const urgentDraft = await createDraft(harbourId, { title: "Bench urgent notice", generalType: types[0], detailTypes: [], restrictions: [], urgency: "urgent", positionStatus: "reported", validFrom: new Date(), validUntil: null, generalArea: "NORTH SEA", locality: "Kestrel Sound", charts: "", body: "Benchmark.", relatedRefs: "", aidIds: [], reportIds: [], acceptOutside: true, parts: [urgentPart] } as never, officer, {}, db);
+  const tPublish = Date.now();
+  const published = await publishNotice(urgentDraft.id, urgentDraft.version, { id: hm.id, role: "harbourmaster" }, { acceptOutside: true }, db);
+  const publishMs = Date.now() - tPublish;
+  const alertsQueued = await count(() => db("outbox").where("idempotency_key", "like", `alert:%:${published.id}:%`).count({ n: "*" }));
+  console.log(`[bench] urgent notice published with ${alertsQueued} alerts queued in the same transaction: ${publishMs} ms`);
   const [{ bytes }] = (await db("outbox").where({ kind: "digest" }).select(db.raw("SUM(LENGTH(body_text) + LENGTH(body_html)) AS bytes")))  as unknown as { bytes: number }[];
   const [{ items }] = (await db("digest_runs").sum({ items: "item_count" })) as unknown as { items: number }[];
   const received = services.env.TEST_MAIL_DIR ? (await import("../fakes/smtp")).readMessages(services.env.TEST_MAIL_DIR).length : 0;

@@ -1,5 +1,5 @@
 import type { Knex } from "knex";
-import { enqueueMail } from "~/models/outbox.server";
+import { enqueueMails } from "~/models/outbox.server";
 import { closeReportsForNotice } from "~/models/report.server";
 import { findAlertRecipients, getHarbourForMail, loadNoticesForMail } from "~/models/subscription.server";
 import { alertMail } from "./subscription-mail.server";
@@ -27,9 +27,16 @@ export async function onNoticeEvent(trx: Knex.Transaction, event: { kind: Notice
   const harbour = await getHarbourForMail(notice.harbourId, trx);
   if (!harbour) return { alerts: 0 };
   const recipients = await findAlertRecipients(notice, trx);
-  for (const sub of recipients) {
-    const mail = alertMail(sub, harbour, notice, event.kind as "published" | "amended" | "cancelled");
-    await enqueueMail({ idempotencyKey: `alert:${sub.id}:${notice.id}:${event.kind}:${notice.version}`, kind: "alert", to: sub.email, ...mail }, trx);
-  }
+  // Multi-row inserts: a harbour-wide urgent notice may concern thousands of subscribers, and
+  // this runs inside the publishing transaction.
+  await enqueueMails(
+    recipients.map((sub) => ({
+      idempotencyKey: `alert:${sub.id}:${notice.id}:${event.kind}:${notice.version}`,
+      kind: "alert",
+      to: sub.email,
+      ...alertMail(sub, harbour, notice, event.kind as "published" | "amended" | "cancelled"),
+    })),
+    trx,
+  );
   return { alerts: recipients.length };
 }
