@@ -1,6 +1,7 @@
 import { Form, Link, useNavigation } from "react-router";
 import { data } from "react-router";
 import type { Route } from "./+types/subscribe";
+import { rateLimited } from "~/services/rate-limit.server";
 import { Caution } from "~/components/Caution";
 import { FormError } from "~/components/forms";
 import { SubscriptionFields, valuesFromSubmitted } from "~/components/subscriptions/SubscriptionForm";
@@ -24,15 +25,20 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const user = await getOptionalUser(request);
   const harbour = await defaultHarbour();
   const form = await readForm(request);
   const raw = formToObject(form);
+  const values = () => Object.fromEntries(Object.entries(raw).map(([k, v]) => [k, Array.isArray(v) ? v : String(v ?? "").slice(0, 12_000)]));
+  // Each request may send a confirmation mail: limit them per address, keeping what was typed.
+  const limited = await rateLimited("subscribe", request, context);
+  if (limited) {
+    return data({ errors: { form: limited.message } as Record<string, string | undefined>, values: values() }, { status: 429, headers: { "Retry-After": String(limited.retryAfterS) } });
+  }
   const parsed = parseSubscriptionForm(raw, harbour.timeZone, { withEmail: true });
   if (!parsed.ok) {
-    const values = Object.fromEntries(Object.entries(raw).map(([k, v]) => [k, Array.isArray(v) ? v : String(v ?? "").slice(0, 12_000)]));
-    return data({ errors: parsed.errors as Record<string, string | undefined>, values }, { status: 400 });
+    return data({ errors: parsed.errors as Record<string, string | undefined>, values: values() }, { status: 400 });
   }
   const outcome = await requestSubscription(parsed.data, harbour, user ? { id: user.id, email: user.email } : null);
   // A signed-in boater's own (verified) address needs no confirmation mail.
@@ -55,7 +61,7 @@ export default function Subscribe({ loaderData, actionData }: Route.ComponentPro
         <Caution compact />
       </div>
       <Form method="post" className="card mt-6 space-y-6" noValidate>
-        {actionData?.errors ? <FormError error="Please correct the fields marked below." /> : null}
+        {actionData?.errors ? <FormError error={actionData.errors.form ?? "Please correct the fields marked below."} /> : null}
         <SubscriptionFields values={values} errors={actionData?.errors ?? {}} withEmail timeZone={loaderData.harbour.timeZone} harbourName={loaderData.harbour.name} map={loaderData.map} />
         <button type="submit" className="btn-primary" disabled={busy}>
           Subscribe
