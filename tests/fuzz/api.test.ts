@@ -9,7 +9,7 @@ import { closeQdb, qdb } from "../../scripts/quality/db";
 import { check, hostileJson, hostileString, mutationsOf, RUNS } from "../../scripts/quality/hostile";
 import { request, type Reply } from "../../scripts/quality/http";
 import { createAccount, sessionCookie } from "../../scripts/quality/people";
-import { rowCounts } from "./invariants";
+import { forgetRateLimits, rowCounts } from "./invariants";
 
 const base = () => process.env.QUALITY_BASE_URL!;
 
@@ -99,6 +99,7 @@ describe("API routes under hostile input", () => {
       const body = fc.oneof({ arbitrary: mutationsOf(valid as never), weight: 3 }, { arbitrary: hostileJson, weight: 1 });
       await check(
         fc.asyncProperty(body, async (b) => {
+          await forgetRateLimits(qdb());
           const before = await rowCounts(qdb());
           const r = await request(base(), path, { json: b, cookie });
           const what = `POST ${path} ${JSON.stringify(b).slice(0, 400)} → ${r.status} ${r.text.slice(0, 300)}`;

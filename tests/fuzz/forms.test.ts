@@ -12,7 +12,7 @@ import { check, hostileString, RUNS } from "../../scripts/quality/hostile";
 import { request, type Reply } from "../../scripts/quality/http";
 import { createAccount, sessionCookie, type Tester } from "../../scripts/quality/people";
 import { fixtures, type Fixtures } from "../security/fixtures";
-import { rowCounts } from "./invariants";
+import { forgetRateLimits, rowCounts } from "./invariants";
 
 const base = () => process.env.QUALITY_BASE_URL!;
 
@@ -139,6 +139,7 @@ describe("form actions under hostile input", () => {
           fc.asyncProperty(submission(form), async (pairs) => {
             // A hostile role change may end our own session: a fresh one each run.
             cookie = await cookieFor(page.as, page.setup);
+            await forgetRateLimits(qdb());
             const before = await rowCounts(qdb());
             const res = await post(form, pairs, cookie);
             const what = `${form.label} as ${page.as} → ${res.status}\n${JSON.stringify(pairs).slice(0, 600)}\n${res.text.slice(0, 300)}`;
@@ -174,6 +175,7 @@ describe("bodies that are not forms", () => {
       const forms = postForms((await request(base(), path!, { cookie })).text, path!.split("?")[0]).filter((f) => !SKIP_ACTIONS.has(f.action));
       for (const form of forms) {
         for (const b of broken) {
+          await forgetRateLimits(qdb());
           const before = await rowCounts(qdb());
           const res = await request(base(), form.action, { method: "POST", headers: b.headers, body: b.body, cookie });
           const what = `${b.name} to ${form.label} → ${res.status} ${res.text.slice(0, 200)}`;

@@ -22,6 +22,7 @@ afterAll(closeQdb);
 // The rate-limit case leaves failures for 127.0.0.1 behind; nothing else may inherit them.
 afterEach(async () => {
   await qdb()("login_failures").delete();
+  await qdb()("rate_limits").delete().catch(() => undefined);
 });
 
 describe("CSRF: cross-origin writes are refused and change nothing", () => {
@@ -166,6 +167,23 @@ describe("sign-in rate limit", () => {
     for (let i = 0; i < 20; i++) await signIn(`xff-${i}-${Date.now()}@quality.example`, "wrong", undefined, { "X-Forwarded-For": `10.0.0.${i}` });
     const blocked = await signIn(user.email, PASSWORD, undefined, { "X-Forwarded-For": "10.9.9.9" });
     expect(blocked.status).toBe(429);
+  });
+});
+
+describe("per-address limits on anonymous writes", () => {
+  it("the 31st report within an hour from one address is refused with 429 and Retry-After", async () => {
+    const aid = (await qdb()("aids").orderBy("id").first("code")) as { code: string };
+    const body = (i: number) => ({ aid: aid.code, observation: { method: "gnss", position: "55°12.31′N 003°02.11′E", accuracyM: 5 }, observedAt: "2026-11-30T09:15:00Z", remarks: `limit ${i}`, reporter: { email: "limits@boaters.example" } });
+    const before = Number((await qdb()("reports").count({ n: "*" }).first())!.n);
+    for (let i = 0; i < 30; i++) {
+      const r = await request(base(), "/api/v1/reports", { json: body(i) });
+      expect(r.status, r.text).toBe(201);
+    }
+    const over = await request(base(), "/api/v1/reports", { json: body(30) });
+    expect(over.status).toBe(429);
+    expect(Number(over.headers.get("Retry-After"))).toBeGreaterThan(0);
+    expect(over.json).toMatchObject({ error: expect.stringMatching(/Too many/) });
+    expect(Number((await qdb()("reports").count({ n: "*" }).first())!.n)).toBe(before + 30);
   });
 });
 
