@@ -84,7 +84,8 @@ describe("API routes under hostile input", () => {
     it(`GET ${prefix}:id`, async () => {
       await check(
         fc.asyncProperty(fc.oneof(hostileString, fc.integer().map(String), fc.constantFrom("0", "-1", "1.5", "99999999999", "1e3", "0x10")), async (id) => {
-          const r = await request(base(), prefix + encodeURIComponent(id.slice(0, 2000)), { cookie });
+          // Under Node's own 16 kB request-line limit (that case is tested on its own below).
+          const r = await request(base(), prefix + encodeURIComponent(id).slice(0, 8000).replace(/%[0-9A-F]?$/i, ""), { cookie });
           const what = `GET ${prefix}${id.slice(0, 60)} → ${r.status} ${r.text.slice(0, 200)}`;
           expect(r.status, what).toBeLessThan(500);
           if (r.status >= 400) expect(jsonMessage(r), what).toBe(true);
