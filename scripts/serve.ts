@@ -8,7 +8,7 @@ import { pathToFileURL } from "node:url";
 import compression from "compression";
 import { createRequestListener } from "@react-router/node";
 import { RouterContextProvider, type ServerBuild } from "react-router";
-import { clientAddressContext } from "../app/context";
+import { CLIENT_ADDRESS_HEADER, clientAddressContext } from "../app/context";
 import sirv from "sirv";
 
 const buildDir = path.resolve(process.env.BUILD_DIR ?? "build");
@@ -47,6 +47,17 @@ if (cluster.isPrimary && workers > 1) {
   const compress = compression();
 
   const server = createServer((req, res) => {
+    // The socket's address, for per-address limits. Set here, overwriting anything the client
+    // sent under that name, so the app can trust it (the router context can also carry it, but
+    // its key object is not shared when this file and the build load separate router copies).
+    // React Router's Request is built from rawHeaders, so that is where it must go.
+    const raw: string[] = [];
+    for (let i = 0; i < req.rawHeaders.length; i += 2) {
+      if (req.rawHeaders[i].toLowerCase() !== CLIENT_ADDRESS_HEADER) raw.push(req.rawHeaders[i], req.rawHeaders[i + 1]);
+    }
+    raw.push(CLIENT_ADDRESS_HEADER, req.socket.remoteAddress ?? "");
+    req.rawHeaders.splice(0, req.rawHeaders.length, ...raw);
+    req.headers[CLIENT_ADDRESS_HEADER] = req.socket.remoteAddress ?? "";
     if (Number(req.headers["content-length"] ?? 0) > MAX_BODY_BYTES) {
       res.writeHead(413, { "Content-Type": "application/json" }).end(JSON.stringify({ error: "Request too large." }));
       return;

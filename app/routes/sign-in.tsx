@@ -6,6 +6,9 @@ import { readForm } from "~/services/form.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Tidewire" }];
 
+// Document responses take their headers from here: keep the action's Retry-After.
+export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders }) => (actionHeaders.has("Retry-After") ? actionHeaders : loaderHeaders);
+
 export async function loader({ request }: Route.LoaderArgs) {
   await requireAnonymous(request);
   return { redirectTo: safeRedirect(new URL(request.url).searchParams.get("redirectTo"), "") };

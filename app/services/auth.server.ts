@@ -2,7 +2,7 @@ import { redirect, data, type RouterContextProvider } from "react-router";
 import { Authenticator } from "remix-auth";
 import { FormStrategy } from "remix-auth-form";
 import { z } from "zod";
-import { clientAddressContext } from "~/context";
+import { CLIENT_ADDRESS_HEADER, clientAddressContext } from "~/context";
 import { env } from "~/env.server";
 import { can, type Capability, type Role } from "~/lib/permissions";
 import { checkLoginThrottle, clearAccountFailures, recordLoginFailure } from "~/models/login-throttle.server";
@@ -31,56 +31,76 @@ export function clientAddress(request: Request, context?: Readonly<RouterContext
     const forwarded = request.headers.get("x-forwarded-for")?.split(",")[0]?.trim();
     if (forwarded) return forwarded;
   }
+  let fromContext: string | null = null;
   try {
-    return context?.get(clientAddressContext) ?? null;
+    fromContext = context?.get(clientAddressContext) ?? null;
   } catch {
-    return null;
+    /* a context without the key */
   }
+  // Only scripts/serve.ts sets this header, overwriting any copy sent by the client.
+  return fromContext ?? (env().NODE_ENV === "production" ? request.headers.get(CLIENT_ADDRESS_HEADER) || null : null);
 }
-
-// remix-auth passes the strategy only the request; the action records the address here first.
-const addressOfRequest = new WeakMap<Request, string | null>();
 
 export const authenticator = new Authenticator<User>();
 
-/** Runs the form strategy with the client's address available for throttling. */
-export function authenticateForm(request: Request, context?: Readonly<RouterContextProvider>) {
-  addressOfRequest.set(request, clientAddress(request, context));
-  return authenticator.authenticate("form", request);
+/** The password did not match: counted towards the sign-in throttle. */
+class MismatchError extends SignInError {}
+
+function parseSignIn(form: FormData) {
+  const parsed = signInSchema.safeParse(Object.fromEntries(form));
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    throw new SignInError(issue.message, issue.path[0] === "password" ? "password" : "email");
+  }
+  return { email: normaliseEmail(parsed.data.email), password: parsed.data.password };
 }
 
 authenticator.use(
-  new FormStrategy(async ({ form, request }) => {
-    const parsed = signInSchema.safeParse(Object.fromEntries(form));
-    if (!parsed.success) {
-      const issue = parsed.error.issues[0];
-      throw new SignInError(issue.message, issue.path[0] === "password" ? "password" : "email");
-    }
-    const email = normaliseEmail(parsed.data.email);
-    const address = addressOfRequest.get(request) ?? null;
-    const throttle = await checkLoginThrottle(email, address);
-    if (throttle.blocked) {
-      const minutes = Math.ceil(throttle.retryAfterS / 60);
-      throw new SignInError(
-        `Too many failed sign-ins. Wait ${minutes} minute${minutes === 1 ? "" : "s"} and try again, or reset your password.`,
-        "form",
-        429,
-        throttle.retryAfterS,
-      );
-    }
-    const user = await verifyLogin(email, parsed.data.password);
-    if (!user) {
-      await recordLoginFailure(email, address);
-      throw new SignInError("That e-mail address and password do not match an account.", "form", 400);
-    }
+  new FormStrategy(async ({ form }) => {
+    const { email, password } = parseSignIn(form);
+    const user = await verifyLogin(email, password);
+    if (!user) throw new MismatchError("That e-mail address and password do not match an account.", "form", 400);
     if (!user.emailVerifiedAt) {
       throw new SignInError("Confirm your e-mail address first: follow the link in the message we sent you.", "email", 400);
     }
-    await clearAccountFailures(email);
     return user;
   }),
   "form",
 );
+
+/**
+ * Signs in with the form strategy, throttled per account and per client address. The throttle
+ * lives here rather than in the strategy because remix-auth hands the strategy a copy of the
+ * request, without the router context that carries the address.
+ */
+export async function authenticateForm(request: Request, context?: Readonly<RouterContextProvider>): Promise<User> {
+  const address = clientAddress(request, context);
+  let form: FormData;
+  try {
+    form = await request.clone().formData();
+  } catch {
+    throw new SignInError("The form could not be read. Send it as a normal web form.", "form");
+  }
+  const { email } = parseSignIn(form);
+  const throttle = await checkLoginThrottle(email, address);
+  if (throttle.blocked) {
+    const minutes = Math.ceil(throttle.retryAfterS / 60);
+    throw new SignInError(
+      `Too many failed sign-ins. Wait ${minutes} minute${minutes === 1 ? "" : "s"} and try again, or reset your password.`,
+      "form",
+      429,
+      throttle.retryAfterS,
+    );
+  }
+  try {
+    const user = await authenticator.authenticate("form", request);
+    await clearAccountFailures(email);
+    return user;
+  } catch (error) {
+    if (error instanceof MismatchError) await recordLoginFailure(email, address);
+    throw error;
+  }
+}
 
 /**
  * Starts a fresh session for the user: the old session (and its id) is destroyed first, so an
