@@ -1,5 +1,6 @@
 import { Form, Link, data } from "react-router";
 import type { Route } from "./+types/account.subscriptions";
+import { FormError } from "~/components/forms";
 import { describeArea } from "~/lib/subscriptions/area";
 import { describeSchedule } from "~/lib/subscriptions/schedule";
 import { generalTypeLabel } from "~/lib/notices/vocabulary";
@@ -42,11 +43,16 @@ export async function action({ request }: Route.ActionArgs) {
   return redirectWithToast(request, "/account/subscriptions", { kind: "success", message: "Subscription ended." });
 }
 
-export default function AccountSubscriptions({ loaderData }: Route.ComponentProps) {
+export default function AccountSubscriptions({ loaderData, actionData }: Route.ComponentProps) {
   return (
     <div className="max-w-3xl">
       <h1 className="text-2xl font-bold">Your alerts and digests</h1>
       <p className="mt-2">Subscriptions for {loaderData.email}.</p>
+      {actionData && "error" in actionData ? (
+        <div className="mt-4">
+          <FormError error={actionData.error} />
+        </div>
+      ) : null}
       {loaderData.subscriptions.length === 0 ? (
         <p className="card mt-6">You have no subscriptions yet.</p>
       ) : (
