@@ -62,11 +62,12 @@ export function SubscriptionFields({
             {errors.areaKind}
           </p>
         ) : null}
-        <div className={areaKind === "circle" ? "grid gap-3 sm:grid-cols-[1fr_10rem]" : "grid gap-3 sm:grid-cols-[1fr_10rem] opacity-70"}>
+        {/* Both area inputs stay readable (dimming them failed contrast); the choice above says which is used. */}
+        <div className="grid gap-3 sm:grid-cols-[1fr_10rem]">
           <Field label="Centre (WGS 84)" name="centre" className="position" placeholder="55°12.00′N 003°02.00′E" value={area.centre} onChange={(e) => update({ centre: e.currentTarget.value })} error={errors.centre} hint="Degrees and minutes, decimal degrees or DMS; N/S E/W or signs." />
           <Field label="Radius (M)" name="radiusNm" inputMode="decimal" placeholder="1.5" value={area.radiusNm} onChange={(e) => update({ radiusNm: e.currentTarget.value })} error={errors.radiusNm} hint="Nautical miles." />
         </div>
-        <div className={areaKind === "polygon" ? "" : "opacity-70"}>
+        <div>
           <TextArea label="Polygon corners (WGS 84), one position per line" name="polygon" rows={5} className="position" placeholder={"55°13.0′N 003°00.0′E\n55°13.0′N 003°04.0′E\n55°11.0′N 003°04.0′E\n55°11.0′N 003°00.0′E"} value={area.polygon} onChange={(e) => update({ polygon: e.currentTarget.value })} error={errors.polygon} hint="At least three corners in order around the area; the polygon is closed for you." />
         </div>
         {map ? <SubscriptionMap fields={area} onChange={update} basemap={map.basemap} tileUrl={map.tileUrl} /> : null}
