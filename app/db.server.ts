@@ -37,6 +37,32 @@ export function serviceUnavailable() {
   );
 }
 
+const PATCHED = Symbol.for("tidewire.db.outage-translation");
+
+/**
+ * Translates outages into a 503 wherever a query is awaited (loaders, actions, API), so a
+ * stopped database gives the 503 page and the app recovers by itself when it returns. The
+ * client's prototype is patched, not the instance: Knex builds each transaction's client from
+ * the prototype, and queries inside transactions must be translated too.
+ */
+function translateOutages(instance: Knex) {
+  type Patchable = { acquireConnection: (...a: unknown[]) => Promise<unknown>; query: (...a: unknown[]) => Promise<unknown>; [PATCHED]?: true };
+  const proto = Object.getPrototypeOf(instance.client) as Patchable;
+  if (proto[PATCHED]) return;
+  proto[PATCHED] = true;
+  for (const method of ["acquireConnection", "query"] as const) {
+    const original = proto[method];
+    proto[method] = async function (this: unknown, ...args: unknown[]) {
+      try {
+        return await original.apply(this, args);
+      } catch (error) {
+        if (isDbUnavailable(error)) throw serviceUnavailable();
+        throw error;
+      }
+    };
+  }
+}
+
 export function createDb(e: Env): Knex {
   const instance = knex({
     client: "mysql2",
@@ -54,27 +80,7 @@ export function createDb(e: Env): Knex {
     pool: { min: 0, max: e.DB_POOL_MAX, acquireTimeoutMillis: 3000 },
     acquireConnectionTimeout: 3000,
   });
-  // Translate outages into a 503 wherever a query is awaited (loaders, actions, API), so a
-  // stopped database gives the 503 page and the app recovers by itself when it returns.
-  const client = instance.client as { acquireConnection: () => Promise<unknown>; query: (...a: unknown[]) => Promise<unknown> };
-  const acquire = client.acquireConnection.bind(client);
-  client.acquireConnection = async () => {
-    try {
-      return await acquire();
-    } catch (error) {
-      if (isDbUnavailable(error)) throw serviceUnavailable();
-      throw error;
-    }
-  };
-  const query = client.query.bind(client);
-  client.query = async (...args: unknown[]) => {
-    try {
-      return await query(...args);
-    } catch (error) {
-      if (isDbUnavailable(error)) throw serviceUnavailable();
-      throw error;
-    }
-  };
+  translateOutages(instance);
   return instance;
 }
 

@@ -22,6 +22,11 @@ export default function handleRequest(
   const isDev = process.env.NODE_ENV !== "production";
   // Vite's dev client injects inline scripts; the strict policy applies to built apps.
   if (!isDev) responseHeaders.set("Content-Security-Policy", documentCsp(nonce, isDev));
+  // The 503 page (database unreachable) tells clients and proxies when to retry and not to cache.
+  if (responseStatusCode === 503) {
+    responseHeaders.set("Retry-After", "10");
+    responseHeaders.set("Cache-Control", "no-store");
+  }
   return new Promise<Response>((resolve, reject) => {
     let shellRendered = false;
     const userAgent = request.headers.get("user-agent");

@@ -34,7 +34,7 @@ export function startLoad(base: string, targets: Target[], loopsPerTarget = 2) {
       const startedAt = Date.now();
       try {
         const r = await request(base, path, { method: t.method, cookie: t.cookie, form, json: t.json?.(), timeoutMs: 15_000 });
-        samples.push({ target: t.name, path, startedAt, status: r.status, contentType: r.headers.get("content-type") ?? "", retryAfter: r.headers.get("retry-after"), body: r.text.slice(0, 4000), form });
+        samples.push({ target: t.name, path, startedAt, status: r.status, contentType: r.headers.get("content-type") ?? "", retryAfter: r.headers.get("retry-after"), body: r.text.slice(0, 64_000), form });
       } catch (e) {
         samples.push({ target: t.name, path, startedAt, status: 0, contentType: "", retryAfter: null, body: "", error: String((e as Error).cause ?? e), form });
         await new Promise((r) => setTimeout(r, 20));
