@@ -80,7 +80,7 @@ function listen(server: NetServer, port: number) {
 }
 
 function createSmtp(dir: string): SMTPServer {
-  return new SMTPServer({
+  const server = new SMTPServer({
     // smtp-server's bundled certificate has expired: offering STARTTLS would break clients.
     disabledCommands: ["STARTTLS"],
     authOptional: true,
@@ -125,6 +125,10 @@ function createSmtp(dir: string): SMTPServer {
       });
     },
   });
+  // A client that drops mid-session (a worker killed while sending) raises "error": log it, do
+  // not let it take down the process hosting the fake.
+  server.on("error", (e) => console.error(`[smtp fake] ${e.message}`));
+  return server;
 }
 
 const esc = (s: string) =>

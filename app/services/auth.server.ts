@@ -155,7 +155,10 @@ export async function requireUser(request: Request): Promise<User> {
   const user = await getOptionalUser(request);
   if (!user) {
     const url = new URL(request.url);
-    throw redirect(`/sign-in?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
+    // A client-side navigation asks for `/path.data` (or `/_root.data`): come back to the page.
+    const pathname = url.pathname === "/_root.data" ? "/" : url.pathname.replace(/\.data$/, "");
+    url.searchParams.delete("_routes");
+    throw redirect(`/sign-in?redirectTo=${encodeURIComponent(pathname + (url.searchParams.size ? `?${url.searchParams}` : ""))}`);
   }
   return user;
 }
