@@ -50,7 +50,9 @@ describe("database outage under load", () => {
     // The same app processes recover by themselves.
     await until("/healthz OK again", async () => (await request(stack.baseURL, "/healthz")).status === 200, 30_000, 200);
     const tRecovered = Date.now();
-    await sleep(2000);
+    // Keep the load on until every target has answered normally a few times after recovery.
+    const okAfter = (t: string) => load.samples.filter((x) => x.target === t && x.startedAt > tRecovered + 500 && (x.status === 200 || x.status === 302)).length;
+    await until("every target answering again", () => ["board", "account page", "notices API", "sign-up"].every((t) => okAfter(t) >= 3), 60_000, 100);
     const samples = await load.stop();
     console.log(`[faults] db killed at +0 ms, restarted at +${tRestart - tKill} ms (up after ${tUp - tRestart} ms), app healthy at +${tRecovered - tKill} ms; ${tally(samples)}`);
 
@@ -74,7 +76,6 @@ describe("database outage under load", () => {
     }
     // After recovery everything answers normally again.
     const after = samples.filter((s) => s.startedAt > tRecovered + 500);
-    expect(after.length).toBeGreaterThan(10);
     expect(after.filter((s) => s.status === 503).map(describeSample)).toEqual([]);
     for (const t of ["board", "account page", "notices API"]) expect(after.some((s) => s.target === t && s.status === 200), t).toBe(true);
 
