@@ -82,7 +82,3 @@ export async function redirectWithToast(request: Request, to: string, toast: Toa
 export async function revokeUserSessions(userId: number, trx = db) {
   await trx("sessions").where({ user_id: userId }).delete();
 }
-
-export async function deleteExpiredSessions() {
-  return db("sessions").where("expires_at", "<=", new Date()).delete();
-}

@@ -6,6 +6,7 @@ import { expireDueNotices } from "~/models/notice.server";
 import { runOutboxOnce } from "./outbox";
 import { cleanupExpiredUploads } from "~/models/photo.server";
 import { closeReportsOfPublishedNotices } from "~/models/report.server";
+import { housekeeping } from "~/models/housekeeping.server";
 
 export type WorkerJob = { name: string; everyMs: number; run: (ctx: { workerId: string }) => Promise<number> };
 
@@ -44,4 +45,6 @@ export const jobs: WorkerJob[] = [
   { name: "cleanup-uploads", everyMs: num(process.env.UPLOAD_CLEANUP_MS, 10 * 60_000), run: async () => (await cleanupExpiredUploads()).removed },
   // Reports linked to a notice that has been published are closed by it (with the reporter's mail).
   { name: "close-reports-by-notice", everyMs: num(process.env.REPORT_SYNC_MS, 5_000), run: () => closeReportsOfPublishedNotices() },
+  // Housekeeping: expired sessions, sign-in failures past the throttle window, spent rate-limit rows.
+  { name: "housekeeping", everyMs: 60 * 60_000, run: () => housekeeping() },
 ];
