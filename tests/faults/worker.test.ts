@@ -16,7 +16,7 @@ afterAll(async () => {
 const TOTAL = 400;
 
 describe("worker killed mid-batch", () => {
-  it("delivers every message exactly once after a crash", async () => {
+  it("loses nothing after a crash; only in-flight rows may repeat, with the same Message-ID", async () => {
     const tag = `kill-${Date.now()}`;
     const rows = Array.from({ length: TOTAL }, (_, i) => ({
       idempotency_key: `${tag}:${i}`,
@@ -57,11 +57,26 @@ describe("worker killed mid-batch", () => {
     await second.exited;
 
     const mail = readMessages(stack.mailDir).filter((m) => m.subject.startsWith("Outbox crash test"));
-    const perRecipient = new Map<string, number>();
-    for (const m of mail) for (const r of m.recipients) perRecipient.set(r, (perRecipient.get(r) ?? 0) + 1);
-    const lost = rows.map((r) => r.to_address).filter((a) => !perRecipient.has(a));
-    const twice = [...perRecipient].filter(([, n]) => n > 1).map(([a, n]) => `${a} ×${n}`);
+    const received = new Set(mail.flatMap((m) => m.recipients));
+    const lost = rows.map((r) => r.to_address).filter((a) => !received.has(a));
     expect(lost, "lost").toEqual([]);
-    expect(twice, `sent twice (killed with ${JSON.stringify(atKill)})`).toEqual([]);
+    // SMTP has no transaction with our database: a kill after the relay accepted a message and
+    // before the row was marked sent makes the next worker send it again. What the outbox can
+    // promise is that such a copy is the same message (same Message-ID, derived from the
+    // idempotency key, so receivers drop it) and only for rows that were in flight at the kill.
+    // Any other duplicate is a bug.
+    const messageId = (m: (typeof mail)[number]) => m.headerLines.find((h) => h.key === "message-id")?.line.replace(/^message-id:\s*/i, "").trim() ?? "";
+    const copies = new Map<string, { n: number; ids: Set<string> }>();
+    for (const m of mail) for (const r of m.recipients) {
+      const c = copies.get(r) ?? { n: 0, ids: new Set<string>() };
+      c.n += 1;
+      c.ids.add(messageId(m));
+      copies.set(r, c);
+    }
+    const twice = [...copies].filter(([, c]) => c.n > 1);
+    const differentIds = twice.filter(([, c]) => c.ids.size > 1 || c.ids.has("")).map(([a]) => a);
+    expect(differentIds, "a re-sent copy must carry the same Message-ID").toEqual([]);
+    expect(twice.length, `re-sent copies (killed with ${JSON.stringify(atKill)}): only rows in flight may repeat`).toBeLessThanOrEqual(atKill.sending ?? 0);
+    if (twice.length) console.log(`[faults] ${twice.length} message(s) in flight at the kill were re-sent with the same Message-ID`);
   }, 240_000);
 });
