@@ -4,7 +4,7 @@
 // production build served by scripts/serve.ts (one or more instances sharing the database) and,
 // when asked, the worker. Everything started here is stopped by pid in stop().
 import { randomBytes } from "node:crypto";
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import knex, { type Knex } from "knex";
@@ -14,6 +14,7 @@ import { startSmtpFake, type SmtpFake } from "../../fakes/smtp";
 import { buildApp, spawnChild, startAppServer, startWorker, stopChildren, waitForHttp, type Child } from "../lib/children";
 import { migrateLatest, runSeeds } from "../lib/knex-ops";
 import { ensureMariadbInstalled, startMariadb, stopMariadb } from "../lib/mariadb";
+import { claimBuildDir } from "../lib/build-dir";
 import { LOCAL, ROOT } from "../lib/paths";
 import { freePort } from "../lib/ports";
 
@@ -68,49 +69,13 @@ export interface Stack {
   stop(): Promise<void>;
 }
 
-function alive(pid: number) {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch {
-    return false;
-  }
-}
-
-/**
- * The shared quality build dir (kept between runs, so an unchanged app is not rebuilt), or, while
- * another live run holds it, a fresh one of our own. Same scheme as tests/support/e2e-global-setup.
- */
-export function claimBuildDir(name = "build-quality"): { dir: string; release(): void } {
-  const shared = join(LOCAL, name);
-  const lock = `${shared}.lock`;
-  mkdirSync(LOCAL, { recursive: true });
-  for (let attempt = 0; attempt < 2; attempt++) {
-    try {
-      mkdirSync(lock);
-      writeFileSync(join(lock, "pid"), String(process.pid));
-      return { dir: shared, release: () => rmSync(lock, { recursive: true, force: true }) };
-    } catch {
-      let owner = 0;
-      try {
-        owner = Number(readFileSync(join(lock, "pid"), "utf8"));
-      } catch {
-        /* being written */
-      }
-      if (owner && !alive(owner)) rmSync(lock, { recursive: true, force: true });
-      else break;
-    }
-  }
-  const own = mkdtempSync(join(LOCAL, `${name}-`));
-  return { dir: own, release: () => rmSync(own, { recursive: true, force: true }) };
-}
 
 export async function startStack(o: StackOptions = {}): Promise<Stack> {
   ensureMariadbInstalled();
   const shm = existsSync("/dev/shm") ? "/dev/shm" : tmpdir();
   const dbDir = mkdtempSync(join(shm, "tidewire-quality-"));
   const filesDir = mkdtempSync(join(tmpdir(), "tidewire-quality-files-"));
-  const build = claimBuildDir();
+  const build = claimBuildDir("build-quality");
   const cleanups: Array<() => Promise<unknown> | void> = [];
   let ownDb: Knex | undefined;
   const stop = async () => {

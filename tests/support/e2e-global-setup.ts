@@ -1,55 +1,16 @@
 // Playwright globalSetup: throwaway services, migrations and the demo seed, a production build in
 // its own directory (a running `npm start` keeps build/), then the server on a free port and the
 // worker. Everything it starts is stopped by pid in the returned teardown.
-import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
-import { join } from "node:path";
+import { claimBuildDir } from "../../scripts/lib/build-dir";
 import { buildApp, startAppServer, startWorker, stopChildren, waitForHttp } from "../../scripts/lib/children";
 import { runSeeds } from "../../scripts/lib/knex-ops";
-import { LOCAL } from "../../scripts/lib/paths";
 import { freePort } from "../../scripts/lib/ports";
 import { startTestServices } from "./services";
-
-function alive(pid: number) {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch {
-    return false;
-  }
-}
-
-/**
- * The shared e2e build dir (kept between runs, so an unchanged app is not rebuilt), or, while
- * another live run holds it, a fresh one of our own so concurrent runs never overwrite each other.
- */
-function claimBuildDir(): { dir: string; release(): void } {
-  const shared = join(LOCAL, "build-e2e");
-  const lock = `${shared}.lock`;
-  mkdirSync(LOCAL, { recursive: true });
-  for (let attempt = 0; attempt < 2; attempt++) {
-    try {
-      mkdirSync(lock);
-      writeFileSync(join(lock, "pid"), String(process.pid));
-      return { dir: shared, release: () => rmSync(lock, { recursive: true, force: true }) };
-    } catch {
-      let owner = 0;
-      try {
-        owner = Number(readFileSync(join(lock, "pid"), "utf8"));
-      } catch {
-        /* lock being written right now */
-      }
-      if (owner && !alive(owner)) rmSync(lock, { recursive: true, force: true });
-      else break;
-    }
-  }
-  const own = mkdtempSync(join(LOCAL, "build-e2e-"));
-  return { dir: own, release: () => rmSync(own, { recursive: true, force: true }) };
-}
 
 export default async function globalSetup() {
   const t0 = Date.now();
   const services = await startTestServices();
-  const build = claimBuildDir();
+  const build = claimBuildDir("build-e2e");
   const stop = async () => {
     await stopChildren();
     await services.stop();
