@@ -238,7 +238,9 @@ export default function ReportPage({ loaderData, actionData }: Route.ComponentPr
         noValidate
       >
         <div className="grid gap-6">
-          <FormError error={errors.form} />
+          {/* A summary whenever anything was refused, so an error on a field that is hidden for the
+              chosen method (or on an unexpected field) is never silent. */}
+          <FormError error={errors.form ?? (Object.values(errors).some(Boolean) ? "Some answers need correcting: see the messages below." : undefined)} />
           <fieldset className="card grid gap-4">
             <legend className="px-1 text-lg font-bold">1. What did you see?</legend>
             <div className="flex flex-wrap gap-4">
