@@ -17,8 +17,7 @@ import VectorSource from "ol/source/Vector";
 import XYZ from "ol/source/XYZ";
 import { Circle as CircleStyle, Fill, Icon, Stroke, Style, Text } from "ol/style";
 import { useEffect, useRef } from "react";
-import { inverse } from "~/lib/geo/geodesy";
-import { circleRing } from "~/lib/notices/geometry";
+import { direct, inverse } from "~/lib/geo/geodesy";
 import type { Bbox, LonLat, MapFeature, MapViewProps } from "./MapView";
 import { aidSymbol, NOTICE_COLOURS, noticePointSymbol, svgDataUri } from "./symbols";
 
@@ -118,12 +117,26 @@ function featureStyle(f: FeatureLike): Style | Style[] {
   return styles;
 }
 
+/**
+ * A geodesic circle as a closed ring of 72 points (as circleRing in ~/lib/notices/geometry, which is
+ * not imported here: that module brings proj4 and turf, ~50 kB the map does not need).
+ */
+function ring(centre: LonLat, radiusM: number, vertices = 72): LonLat[] {
+  const out: LonLat[] = [];
+  for (let i = 0; i < vertices; i++) {
+    const p = direct(centre[1], centre[0], (360 - (i * 360) / vertices) % 360, radiusM);
+    out.push([p.lon, p.lat]);
+  }
+  out.push(out[0]!);
+  return out;
+}
+
 /** Circles and uncertainty circles arrive as a centre and a radius: draw them geodesically. */
 function expand(features: MapFeature[]): MapFeature[] {
   return features.map((f) => {
     const radiusM = Number(f.properties.radiusM);
     if ((f.properties.symbol === "circle" || f.properties.symbol === "uncertainty") && f.geometry?.type === "Point" && radiusM > 0) {
-      return { ...f, geometry: { type: "Polygon", coordinates: [circleRing(f.geometry.coordinates, radiusM / 1852)] } };
+      return { ...f, geometry: { type: "Polygon", coordinates: [ring(f.geometry.coordinates, radiusM)] } };
     }
     return f;
   });
