@@ -12,7 +12,8 @@ import Graticule from "ol/layer/Graticule";
 import TileLayer from "ol/layer/Tile";
 import VectorLayer from "ol/layer/Vector";
 import { fromLonLat, toLonLat, transformExtent } from "ol/proj";
-import { getCenter, isEmpty } from "ol/extent";
+import { createEmpty, extend, getCenter, isEmpty } from "ol/extent";
+import LayerGroup from "ol/layer/Group";
 import VectorSource from "ol/source/Vector";
 import XYZ from "ol/source/XYZ";
 import { Circle as CircleStyle, Fill, Icon, Stroke, Style, Text } from "ol/style";
@@ -41,8 +42,21 @@ function iconStyle(svg: string, scale = 1, anchorY = 1): Style {
   return s;
 }
 
+// One label style per text and offset, reused on every frame (OpenLayers caches the drawn label
+// per style, so new Style objects each frame meant drawing every label again).
+const labelCache = new Map<string, Style>();
 function label(text: unknown, offsetY = 14): Style | null {
   if (typeof text !== "string" || !text) return null;
+  const key = `${offsetY}|${text}`;
+  let s = labelCache.get(key);
+  if (!s) {
+    s = newLabel(text, offsetY);
+    labelCache.set(key, s);
+  }
+  return s;
+}
+
+function newLabel(text: string, offsetY: number): Style {
   return new Style({
     text: new Text({
       text,
@@ -165,7 +179,11 @@ const ddm = (v: number, pos: string, neg: string) => {
 export default function MapViewClient(props: MapViewProps) {
   const target = useRef<HTMLDivElement>(null);
   const mapRef = useRef<OlMap | null>(null);
-  const layerSource = useRef(new VectorSource());
+  // One vector layer per MapLayer id, inside one group above the base map, so new features in
+  // one layer (the notices of the visible extent) leave the others (the aids) as drawn.
+  const featureGroup = useRef(new LayerGroup({ visible: false }));
+  const featureLayers = useRef(new Map<string, { layer: VectorLayer<VectorSource>; features: MapFeature[] }>());
+  const isFeatureLayer = (l: unknown) => featureGroup.current.getLayers().getArray().includes(l as VectorLayer<VectorSource>);
   const baseSource = useRef(new VectorSource());
   const drawRef = useRef<Draw | null>(null);
   const handlers = useRef(props);
@@ -181,36 +199,58 @@ export default function MapViewClient(props: MapViewProps) {
         source: baseSource.current,
         style: (f) => BASEMAP_STYLES[String(f.get("kind"))] ?? BASEMAP_STYLES.land!,
       }),
-      new Graticule({
-        strokeStyle: new Stroke({ color: "rgba(15,37,48,0.25)", width: 1, lineDash: [2, 4] }),
-        showLabels: true,
-        wrapX: false,
-        lonLabelFormatter: (lon: number) => ddm(lon, "E", "W"),
-        latLabelFormatter: (lat: number) => ddm(lat, "N", "S"),
-        intervals: [10, 5, 2, 1, 0.5, 0.2, 1 / 12, 1 / 30, 1 / 60],
-      }),
-      new VectorLayer({ source: layerSource.current, style: featureStyle }),
+      featureGroup.current,
     );
     const map = new OlMap({ target: target.current, layers, view: new View({ center: fromLonLat([3.04, 55.21]), zoom: 12, maxZoom: 19 }) });
+    // Drawn in three steps, each in a task of its own after the frame before it: the base map,
+    // then the features (symbols and labels), then the graticule (lines and DDM labels, the
+    // costliest layer). One frame with everything was a ~270 ms task under the 4× CPU slowdown of
+    // Lighthouse's mobile preset, blocking input all that time.
+    const steps = [
+      () => featureGroup.current.setVisible(true),
+      () =>
+        map.getLayers().insertAt(
+          map.getLayers().getLength() - 1,
+          new Graticule({
+            strokeStyle: new Stroke({ color: "rgba(15,37,48,0.25)", width: 1, lineDash: [2, 4] }),
+            showLabels: true,
+            wrapX: false,
+            lonLabelFormatter: (lon: number) => ddm(lon, "E", "W"),
+            latLabelFormatter: (lat: number) => ddm(lat, "N", "S"),
+            intervals: [10, 5, 2, 1, 0.5, 0.2, 1 / 12, 1 / 30, 1 / 60],
+          }),
+        ),
+    ];
+    let stepTimer: ReturnType<typeof setTimeout> | undefined;
+    const nextStep = () => {
+      const step = steps.shift();
+      if (!step) return;
+      stepTimer = setTimeout(() => {
+        map.once("postrender", nextStep);
+        step();
+      }, 0);
+    };
+    map.once("postrender", nextStep);
     map.on("moveend", () => {
       const bbox = visibleBbox(map);
       if (bbox) handlers.current.onMoveEnd?.(bbox);
     });
     map.on("singleclick", (evt) => {
       if (drawRef.current) return;
-      const f = map.forEachFeatureAtPixel(evt.pixel, (feat) => feat, { layerFilter: (l) => l.getSource() === layerSource.current });
+      const f = map.forEachFeatureAtPixel(evt.pixel, (feat) => feat, { layerFilter: isFeatureLayer });
       if (!f) return;
       const p = f.getProperties();
       if (handlers.current.onFeatureClick) handlers.current.onFeatureClick(p);
       else if (typeof p.href === "string") window.location.assign(p.href);
     });
     map.on("pointermove", (evt) => {
-      const hit = map.hasFeatureAtPixel(evt.pixel, { layerFilter: (l) => l.getSource() === layerSource.current });
+      const hit = map.hasFeatureAtPixel(evt.pixel, { layerFilter: isFeatureLayer });
       const el = map.getTargetElement();
       if (el) el.style.cursor = hit ? "pointer" : "";
     });
     mapRef.current = map;
     return () => {
+      clearTimeout(stepTimer);
       map.setTarget(undefined);
       mapRef.current = null;
     };
@@ -225,9 +265,37 @@ export default function MapViewClient(props: MapViewProps) {
 
   // Layers.
   useEffect(() => {
-    layerSource.current.clear();
-    layerSource.current.addFeatures(readFeatures((props.layers ?? []).flatMap((l) => l.features)));
+    const group = featureGroup.current.getLayers();
+    const wanted = new Set<string>();
+    (props.layers ?? []).forEach((l, i) => {
+      wanted.add(l.id);
+      let entry = featureLayers.current.get(l.id);
+      if (!entry) {
+        entry = { layer: new VectorLayer({ source: new VectorSource(), style: featureStyle }), features: [] };
+        featureLayers.current.set(l.id, entry);
+        group.insertAt(Math.min(i, group.getLength()), entry.layer);
+      }
+      if (entry.features === l.features) return;
+      entry.features = l.features;
+      const source = entry.layer.getSource()!;
+      source.clear(true);
+      source.addFeatures(readFeatures(l.features));
+    });
+    for (const [id, entry] of featureLayers.current) {
+      if (wanted.has(id)) continue;
+      group.remove(entry.layer);
+      featureLayers.current.delete(id);
+    }
   }, [props.layers]);
+
+  const allFeaturesExtent = () => {
+    const e = createEmpty();
+    for (const { layer } of featureLayers.current.values()) {
+      const x = layer.getSource()?.getExtent();
+      if (x) extend(e, x);
+    }
+    return e;
+  };
 
   // Fit once (and again when fitKey changes).
   useEffect(() => {
@@ -237,7 +305,7 @@ export default function MapViewClient(props: MapViewProps) {
     if (Array.isArray(props.fit)) extent = transformExtent(props.fit, "EPSG:4326", "EPSG:3857");
     else {
       const only = props.fitLayerId ? props.layers?.find((l) => l.id === props.fitLayerId) : undefined;
-      const e = only && only.features.length ? new VectorSource({ features: readFeatures(only.features) }).getExtent() : layerSource.current.getExtent();
+      const e = only && only.features.length ? new VectorSource({ features: readFeatures(only.features) }).getExtent() : allFeaturesExtent();
       extent = e && !isEmpty(e) && Number.isFinite(e[0]) ? e : baseSource.current.getExtent();
     }
     if (!extent || isEmpty(extent) || !Number.isFinite(extent[0])) return;
