@@ -1,13 +1,15 @@
 import { randomBytes } from "node:crypto";
 import { PassThrough } from "node:stream";
 import { createReadableStreamFromReadable } from "@react-router/node";
-import { isbot } from "isbot";
 import { renderToPipeableStream } from "react-dom/server";
 import type { EntryContext, HandleErrorFunction, RouterContextProvider } from "react-router";
 import { ServerRouter } from "react-router";
 import { NonceContext } from "./components/nonce";
 import { isDbUnavailable } from "./db.server";
+import { cachedDocument, documentCache, documentCacheKey, documentVariant, registerDocumentCsp } from "./services/http-cache.server";
 import { documentCsp } from "./services/security.server";
+
+registerDocumentCsp((nonce) => documentCsp(nonce, false));
 
 export const streamTimeout = 5_000;
 
@@ -27,11 +29,12 @@ export default function handleRequest(
     responseHeaders.set("Retry-After", "10");
     responseHeaders.set("Cache-Control", "no-store");
   }
+  const readyOption = routerContext.isSpaMode ? "onAllReady" : documentVariant(request);
+  // An anonymous public page (validatedPage): kept, so the next reader of the same fingerprint
+  // gets these bytes with a nonce of its own without any rendering.
+  const cacheKey = isDev ? null : documentCacheKey(request, responseStatusCode, responseHeaders);
   return new Promise<Response>((resolve, reject) => {
     let shellRendered = false;
-    const userAgent = request.headers.get("user-agent");
-    // Crawlers and no-JS clients get the whole document at once.
-    const readyOption = (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
     const { pipe, abort } = renderToPipeableStream(
       <NonceContext.Provider value={nonce}>
         <ServerRouter context={routerContext} url={request.url} nonce={nonce} />
@@ -41,6 +44,15 @@ export default function handleRequest(
         [readyOption]() {
           shellRendered = true;
           const body = new PassThrough();
+          if (cacheKey) {
+            const chunks: Buffer[] = [];
+            body.on("data", (c: Buffer) => chunks.push(c));
+            body.on("end", () => {
+              if (responseStatusCode !== 200) return;
+              const headers = [...responseHeaders].filter(([name]) => name !== "content-security-policy" && name !== "etag");
+              documentCache.set(cacheKey, cachedDocument(Buffer.concat(chunks).toString("utf8"), nonce, headers));
+            });
+          }
           const stream = createReadableStreamFromReadable(body);
           responseHeaders.set("Content-Type", "text/html; charset=utf-8");
           resolve(new Response(stream, { headers: responseHeaders, status: responseStatusCode }));

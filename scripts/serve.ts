@@ -8,7 +8,7 @@ import { pathToFileURL } from "node:url";
 import compression from "compression";
 import { createRequestListener } from "@react-router/node";
 import { RouterContextProvider, type ServerBuild } from "react-router";
-import { CLIENT_ADDRESS_HEADER, clientAddressContext } from "../app/context";
+import { CLIENT_ADDRESS_HEADER, clientAddressContext, REQUEST_KIND_HEADER } from "../app/context";
 import sirv from "sirv";
 
 const buildDir = path.resolve(process.env.BUILD_DIR ?? "build");
@@ -51,13 +51,18 @@ if (cluster.isPrimary && workers > 1) {
     // sent under that name, so the app can trust it (the router context can also carry it, but
     // its key object is not shared when this file and the build load separate router copies).
     // React Router's Request is built from rawHeaders, so that is where it must go.
+    // The same for the request's kind (see app/context.ts): only this server can tell a page
+    // from React Router's data request for it.
     const raw: string[] = [];
     for (let i = 0; i < req.rawHeaders.length; i += 2) {
-      if (req.rawHeaders[i].toLowerCase() !== CLIENT_ADDRESS_HEADER) raw.push(req.rawHeaders[i], req.rawHeaders[i + 1]);
+      const name = req.rawHeaders[i].toLowerCase();
+      if (name !== CLIENT_ADDRESS_HEADER && name !== REQUEST_KIND_HEADER) raw.push(req.rawHeaders[i], req.rawHeaders[i + 1]);
     }
-    raw.push(CLIENT_ADDRESS_HEADER, req.socket.remoteAddress ?? "");
+    const kind = (req.method === "GET" || req.method === "HEAD") && !/\.data(?:\?|$)/.test(req.url ?? "") ? "document" : "other";
+    raw.push(CLIENT_ADDRESS_HEADER, req.socket.remoteAddress ?? "", REQUEST_KIND_HEADER, kind);
     req.rawHeaders.splice(0, req.rawHeaders.length, ...raw);
     req.headers[CLIENT_ADDRESS_HEADER] = req.socket.remoteAddress ?? "";
+    req.headers[REQUEST_KIND_HEADER] = kind;
     if (Number(req.headers["content-length"] ?? 0) > MAX_BODY_BYTES) {
       res.writeHead(413, { "Content-Type": "application/json" }).end(JSON.stringify({ error: "Request too large." }));
       return;

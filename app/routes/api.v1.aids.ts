@@ -4,6 +4,7 @@ import type { Route } from "./+types/api.v1.aids";
 import { AID_STATUS_LABELS, IALA_CATEGORY_LABELS } from "~/lib/aids/iala";
 import { aidLight, aidSwingRadiusM, listAids } from "~/models/aid.server";
 import { getDefaultHarbour } from "~/models/harbour.server";
+import { cachedResponse } from "~/services/http-cache.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const harbour = await getDefaultHarbour();
@@ -40,7 +41,10 @@ export async function loader({ request }: Route.LoaderArgs) {
       };
     }),
   };
-  return new Response(JSON.stringify(body), {
-    headers: { "Content-Type": "application/geo+json; charset=utf-8", "Cache-Control": "public, max-age=60", "Access-Control-Allow-Origin": "*" },
+  return cachedResponse(request, JSON.stringify(body), {
+    contentType: "application/geo+json; charset=utf-8",
+    maxAgeS: 60,
+    lastModified: aids.reduce<Date | null>((m, a) => (!m || a.updatedAt > m ? a.updatedAt : m), null),
+    extraHeaders: { "Access-Control-Allow-Origin": "*" },
   });
 }

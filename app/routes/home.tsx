@@ -1,55 +1,95 @@
-// The public notice board: a map of the notices in force in the visible extent (fetched from
-// the API as the reader pans) and the list of everything in force, urgent first.
-import { useCallback, useMemo, useRef, useState } from "react";
+// The public notice board: the list of everything in force, urgent first, and a map of the
+// notices in the visible extent and the harbour's aids, both fetched from the cacheable GeoJSON
+// API after hydration (the document carries only the list; the map is a picture of it).
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { data, Link } from "react-router";
 import type { Route } from "./+types/home";
 import { Caution } from "~/components/Caution";
 import { MapView, type Bbox, type MapFeature } from "~/components/map/MapView";
-import { aidMapFeature, noticeMapFeature } from "~/components/notices/features";
 import { formatLocal } from "~/components/notices/format";
-import { NoticeTable } from "~/components/notices/NoticeTable";
+import { NoticeTable, noticeRowData } from "~/components/notices/NoticeTable";
 import { env } from "~/env.server";
-import { listAids } from "~/models/aid.server";
 import { getDefaultHarbour } from "~/models/harbour.server";
-import { lastPublicChange, listInForce, listRecentlyEnded } from "~/models/notice.server";
-import { getOptionalUser } from "~/services/auth.server";
-import { conditionalGet, forwardCacheHeaders, pageCacheHeaders } from "~/services/http-cache.server";
+import { listInForce, listRecentlyEnded } from "~/models/notice.server";
+import { publicRevision } from "~/models/public-revision.server";
+import { forwardCacheHeaders, memoPayload, validatedHeaders, validatedPage } from "~/services/http-cache.server";
 
-export const middleware: Route.MiddlewareFunction[] = [conditionalGet];
+// What the board shows changes only with a write to notices, a notice lapsing by the clock, or
+// the two-week window of "recently ended" moving on (checked by the hour).
+export const middleware: Route.MiddlewareFunction[] = [
+  validatedPage(async () => {
+    const r = await publicRevision();
+    return [r.notices, r.lapsedAt, Math.floor(Date.now() / 3_600_000)];
+  }),
+];
 export const headers = forwardCacheHeaders;
 export const meta: Route.MetaFunction = () => [{ title: "Notice board · Tidewire · Kestrel Sound" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  // Public page: no guard. The signed-in user only changes the cache key.
-  const user = await getOptionalUser(request);
-  const harbour = await getDefaultHarbour();
-  const [inForce, ended, aids, lastChange] = await Promise.all([
-    listInForce(harbour?.id),
-    listRecentlyEnded(harbour?.id),
-    harbour ? listAids(harbour.id) : Promise.resolve([]),
-    lastPublicChange(),
-  ]);
-  const payload = {
-    harbourName: harbour?.name ?? "Kestrel Sound",
-    authorityName: harbour?.authorityName ?? "",
-    zone: harbour?.timeZone ?? "Europe/London",
-    basemap: harbour?.basemap ?? null,
-    tileUrl: env().MAP_TILE_URL ?? null,
-    inForce,
-    ended,
-    noticeFeatures: inForce.map((n) => noticeMapFeature(n)),
-    aidFeatures: aids.map(aidMapFeature),
+function boundsOf(geometry: { coordinates: unknown } | undefined): Bbox | null {
+  const flat: number[][] = [];
+  const walk = (c: unknown) => {
+    if (Array.isArray(c) && typeof c[0] === "number") flat.push(c as number[]);
+    else if (Array.isArray(c)) c.forEach(walk);
   };
-  return data(payload, {
-    headers: pageCacheHeaders(request, { lastChange, ids: inForce.map((n) => n.version + ":" + n.id), ended: ended.map((n) => n.id + n.effectiveStatus), aids: aids.map((a) => a.status) }, { lastModified: lastChange, userId: user?.id }),
-  });
+  walk(geometry?.coordinates);
+  if (!flat.length) return null;
+  const lons = flat.map((p) => p[0]!);
+  const lats = flat.map((p) => p[1]!);
+  return [Math.min(...lons), Math.min(...lats), Math.max(...lons), Math.max(...lats)];
 }
 
-type ApiFeature = { id: number; geometry: MapFeature["geometry"]; properties: { urgency: string; status: string; seriesNumber: string | null; title: string } };
+export async function loader({ request, context }: Route.LoaderArgs) {
+  // Public page: no guard. The signed-in user only changes the cache key (validatedPage).
+  const payload = await memoPayload(context, async () => {
+    const harbour = await getDefaultHarbour();
+    const [inForce, ended] = await Promise.all([listInForce(harbour?.id), listRecentlyEnded(harbour?.id)]);
+    return {
+      harbourName: harbour?.name ?? "Kestrel Sound",
+      authorityName: harbour?.authorityName ?? "",
+      zone: harbour?.timeZone ?? "Europe/London",
+      basemap: harbour?.basemap ?? null,
+      bounds: boundsOf(harbour?.boundary),
+      tileUrl: env().MAP_TILE_URL ?? null,
+      inForce: inForce.map(noticeRowData),
+      ended: ended.map((n) => ({ ...noticeRowData(n), cancelledAt: n.cancelledAt, cancellationReason: n.cancellationReason })),
+      lastChange: [...inForce, ...ended].reduce<string | null>((m, n) => (!m || n.updatedAt > m ? n.updatedAt : m), null),
+    };
+  });
+  return data(payload, { headers: validatedHeaders(request, context, { lastModified: payload.lastChange ? new Date(payload.lastChange) : null }) });
+}
+
+type ApiFeature = { id: number | string; geometry: MapFeature["geometry"]; properties: Record<string, unknown> };
+
+/** The aids layer from GET /api/v1/aids, once after hydration (cached by the browser). */
+function useAidFeatures(): MapFeature[] {
+  const [aids, setAids] = useState<MapFeature[]>([]);
+  useEffect(() => {
+    let live = true;
+    fetch("/api/v1/aids")
+      .then((r) => (r.ok ? r.json() : null))
+      .then((fc: { features: ApiFeature[] } | null) => {
+        if (!live || !fc) return;
+        setAids(
+          fc.features.map((f) => ({
+            type: "Feature",
+            id: `aid-${f.id}`,
+            geometry: f.geometry,
+            properties: { symbol: "aid", ialaCategory: f.properties.ialaCategory, aidType: f.properties.aidType, status: f.properties.status, label: f.properties.code },
+          })),
+        );
+      })
+      .catch(() => {});
+    return () => {
+      live = false;
+    };
+  }, []);
+  return aids;
+}
 
 export default function Board({ loaderData }: Route.ComponentProps) {
   const d = loaderData;
-  const [visible, setVisible] = useState<MapFeature[] | null>(null);
+  const [visible, setVisible] = useState<MapFeature[]>([]);
+  const aidFeatures = useAidFeatures();
   const request = useRef(0);
   const onMoveEnd = useCallback((bbox: Bbox) => {
     const mine = ++request.current;
@@ -70,10 +110,10 @@ export default function Board({ loaderData }: Route.ComponentProps) {
   }, []);
   const layers = useMemo(
     () => [
-      { id: "aids", features: d.aidFeatures },
-      { id: "notices", features: visible ?? d.noticeFeatures },
+      { id: "aids", features: aidFeatures },
+      { id: "notices", features: visible },
     ],
-    [d.aidFeatures, d.noticeFeatures, visible],
+    [aidFeatures, visible],
   );
   const urgent = d.inForce.filter((n) => n.urgency === "urgent");
   return (
@@ -129,7 +169,7 @@ export default function Board({ loaderData }: Route.ComponentProps) {
         basemap={d.basemap}
         tileUrl={d.tileUrl}
         layers={layers}
-        fit="layers"
+        fit={d.bounds ?? "layers"}
         onMoveEnd={onMoveEnd}
         height="28rem"
       />

@@ -11,10 +11,18 @@ import { can } from "~/lib/permissions";
 import { crsLabel, crsOptions, positionRows } from "~/lib/notices/position-table";
 import { getDefaultHarbour } from "~/models/harbour.server";
 import { getNotice, listAudit } from "~/models/notice.server";
+import { publicRevision } from "~/models/public-revision.server";
 import { getOptionalUser } from "~/services/auth.server";
-import { conditionalGet, forwardCacheHeaders, pageCacheHeaders } from "~/services/http-cache.server";
+import { forwardCacheHeaders, memoPayload, validatedHeaders, validatedPage } from "~/services/http-cache.server";
 
-export const middleware: Route.MiddlewareFunction[] = [conditionalGet];
+// The page shows one notice, its history and the names of its linked aids: any write to notices
+// or aids, or a notice lapsing by the clock, makes a new copy.
+export const middleware: Route.MiddlewareFunction[] = [
+  validatedPage(async () => {
+    const r = await publicRevision();
+    return [r.notices, r.aids, r.lapsedAt];
+  }),
+];
 export const headers = forwardCacheHeaders;
 
 export const meta: Route.MetaFunction = ({ data }) => [
@@ -25,9 +33,15 @@ export const links: Route.LinksFunction = () => [{ rel: "stylesheet", href: "/no
 
 const PUBLIC_ACTIONS = new Set(["published", "amended", "cancelled", "superseded", "expired"]);
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  // Public page; drafts only for staff who may draft.
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  // Public page; drafts only for staff who may draft (the user is part of the fingerprint).
+  const payload = await memoPayload(context, () => buildPayload(request, params.id));
+  return data(payload, { headers: validatedHeaders(request, context, { lastModified: new Date(payload.notice.updatedAt) }) });
+}
+
+async function buildPayload(request: Request, id: string) {
   const user = await getOptionalUser(request);
+  const params = { id };
   if (!/^\d{1,10}$/.test(params.id)) throw data({ error: "There is no notice at this address." }, { status: 404 });
   const notice = await getNotice(Number(params.id));
   if (!notice || (notice.status === "draft" && !can(user?.role, "notice:draft"))) throw data({ error: "There is no notice at this address." }, { status: 404 });
@@ -59,7 +73,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     history,
     canEdit: can(user?.role, "notice:draft") && (notice.effectiveStatus === "draft" || notice.effectiveStatus === "in_force"),
   };
-  return data(payload, { headers: pageCacheHeaders(request, { v: notice.version, u: notice.updatedAt, crsParam, s: notice.effectiveStatus, e: payload.canEdit }, { lastModified: new Date(notice.updatedAt), userId: user?.id }) });
+  return payload;
 }
 
 export default function NoticePage({ loaderData }: Route.ComponentProps) {

@@ -6,8 +6,15 @@
 // (`conditionalGet`) answers 304 when the fingerprint still matches. Built documents carry a
 // per-response CSP nonce, so the page's ETag also carries that nonce and a 304 repeats the CSP
 // with the nonce of the copy the browser holds (a 304 updates the cached response's headers).
-import { createHash } from "node:crypto";
-import type { MiddlewareFunction } from "react-router";
+import { createHash, randomBytes } from "node:crypto";
+import { readFileSync } from "node:fs";
+import { fileURLToPath } from "node:url";
+import { isbot } from "isbot";
+import { LRUCache } from "lru-cache";
+import { createContext, type MiddlewareFunction, type RouterContextProvider } from "react-router";
+import { REQUEST_KIND_HEADER } from "~/context";
+import { getOptionalUser } from "./auth.server";
+import { getSession } from "./session.server";
 
 export function weakTag(text: string): string {
   return createHash("sha1").update(text).digest("base64url").slice(0, 22);
@@ -105,3 +112,153 @@ export const conditionalGet: MiddlewareFunction<Response> = async ({ request }, 
   if (csp && nonce) headers.set("Content-Security-Policy", oldNonce ? csp.replace(`'nonce-${nonce}'`, `'nonce-${oldNonce}'`) : csp);
   return new Response(null, { status: 304, headers });
 };
+
+// ---------------------------------------------------------------------------------------------
+// Validated pages: a cheap validator before the loader's queries, and caches keyed by it.
+//
+// `validatedPage(compute)` is a route middleware. `compute` returns what the page depends on
+// from one cheap query (e.g. publicRevision(): tokens the database replaces on every write, and
+// the last lapse by the clock). Its fingerprint — with the build, the URL and the signed-in
+// user — is the page's ETag, so a client or proxy holding the current copy gets a 304 without
+// any of the page's real work. The loader reuses a payload built for the same fingerprint
+// (`memoPayload`) and entry.server reuses the rendered HTML of an anonymous page for it
+// (`documentCache`), giving each copy a fresh CSP nonce. Correctness rests on `compute`
+// covering everything the page shows; the fingerprint is checked on every request, so no copy
+// outlives a change.
+
+
+/** Changes with every build: a copy rendered by other code is never reused. */
+const BUILD_ID = (() => {
+  try {
+    return weakTag(readFileSync(fileURLToPath(import.meta.url)).toString("latin1"));
+  } catch {
+    return "unknown-build";
+  }
+})();
+
+export const pageFingerprintContext = createContext<string | null>(null);
+
+function hasSession(request: Request): boolean {
+  return request.headers.get("Cookie")?.includes("tw_session=") ?? false;
+}
+
+export function validatedPage(compute: (args: { request: Request; params: Record<string, string | undefined> }) => Promise<unknown>): MiddlewareFunction<Response> {
+  return async (args, next) => {
+    const { request, context } = args;
+    if (request.method !== "GET" && request.method !== "HEAD") return conditionalGet(args, next);
+    const signedIn = hasSession(request);
+    const [user, session] = signedIn ? await Promise.all([getOptionalUser(request), getSession(request)]) : [null, null];
+    // A one-time message waits in the session: render the page so it is shown (and consumed).
+    const toastWaiting = Boolean(session?.get("toast"));
+    const url = new URL(request.url);
+    const fingerprint = weakTag(JSON.stringify([BUILD_ID, url.pathname, url.search, user?.id ?? null, await compute(args)]));
+    context.set(pageFingerprintContext, fingerprint);
+    const matched = matches(request.headers.get("If-None-Match"), fingerprint);
+    if (matched && !toastWaiting) {
+      const headers = new Headers({ ETag: matched, "Cache-Control": cacheControl(request, 0) });
+      // The copy the browser keeps carries its own nonce; a 304 replaces the stored headers it
+      // names, so it repeats the policy with that nonce.
+      const oldNonce = matched.replace(/^W\//, "").replace(/"/g, "").split(".")[1];
+      if (oldNonce && process.env.NODE_ENV === "production") headers.set("Content-Security-Policy", documentCspFor(oldNonce));
+      return new Response(null, { status: 304, headers });
+    }
+    if (!signedIn && isDocumentRequest(request)) {
+      const hit = documentCache.get(keyFor(request, fingerprint));
+      if (hit) return replayDocument(request, hit, fingerprint);
+    }
+    return conditionalGet(args, next);
+  };
+}
+
+// entry.server sets the document policy; the 304 above needs the same text for another nonce.
+let documentCspFor: (nonce: string) => string = () => "";
+export function registerDocumentCsp(fn: (nonce: string) => string) {
+  documentCspFor = fn;
+}
+
+const payloads = new LRUCache<string, { value: unknown }>({ max: 500, ttl: 15 * 60_000 });
+
+/** The loader's payload for this request's fingerprint, built once per fingerprint. */
+export async function memoPayload<T>(context: Readonly<RouterContextProvider>, build: () => Promise<T>): Promise<T> {
+  let fingerprint: string | null = null;
+  try {
+    fingerprint = context.get(pageFingerprintContext);
+  } catch {
+    fingerprint = null;
+  }
+  if (!fingerprint) return build();
+  const hit = payloads.get(fingerprint);
+  if (hit) return hit.value as T;
+  const value = await build();
+  payloads.set(fingerprint, { value });
+  return value;
+}
+
+/** Validator headers for a page under `validatedPage`: its fingerprint is the ETag. */
+export function validatedHeaders(request: Request, context: Readonly<RouterContextProvider>, opts: { lastModified?: Date | null } = {}) {
+  let fingerprint: string | null = null;
+  try {
+    fingerprint = context.get(pageFingerprintContext);
+  } catch {
+    fingerprint = null;
+  }
+  const headers: Record<string, string> = { "Cache-Control": cacheControl(request, 0) };
+  if (fingerprint) headers.ETag = `W/"${fingerprint}"`;
+  if (opts.lastModified) headers["Last-Modified"] = new Date(opts.lastModified).toUTCString();
+  return headers;
+}
+
+/**
+ * Rendered documents of anonymous public pages, by URL, fingerprint and variant, with the nonce
+ * they were rendered with (replaced by each response's own) and their headers. Bounded by size.
+ */
+export type CachedDocument = {
+  /** The document's bytes between the occurrences of its nonce (kept as bytes: no re-encoding per copy). */
+  parts: Buffer[];
+  headers: Array<[string, string]>;
+};
+export const documentCache = new LRUCache<string, CachedDocument>({
+  maxSize: 64 * 1024 * 1024,
+  sizeCalculation: (v) => v.parts.reduce((n, p) => n + p.length, 512),
+  ttl: 15 * 60_000,
+});
+
+export function cachedDocument(html: string, nonce: string, headers: Array<[string, string]>): CachedDocument {
+  return { parts: html.split(nonce).map((p) => Buffer.from(p, "utf8")), headers };
+}
+
+/** Crawlers and no-JS clients get the whole document at once (entry.server): another copy. */
+export function documentVariant(request: Request): "onAllReady" | "onShellReady" {
+  const userAgent = request.headers.get("user-agent");
+  return userAgent && isbot(userAgent) ? "onAllReady" : "onShellReady";
+}
+
+/** The document cache key for a rendered response, or null when it was for this reader alone. */
+export function documentCacheKey(request: Request, status: number, headers: Headers): string | null {
+  if (status !== 200 || (request.method !== "GET" && request.method !== "HEAD") || !isDocumentRequest(request)) return null;
+  const etag = headers.get("ETag");
+  if (!etag || headers.has("Set-Cookie") || !headers.get("Cache-Control")?.startsWith("public") || hasSession(request)) return null;
+  return keyFor(request, etag.replace(/^W\//, "").replace(/"/g, ""));
+}
+
+function keyFor(request: Request, fingerprint: string): string {
+  return `${documentVariant(request)}|${request.url}|${fingerprint}`;
+}
+
+/** A page itself, as told by scripts/serve.ts (React Router's data requests share its URL). */
+function isDocumentRequest(request: Request): boolean {
+  return process.env.NODE_ENV === "production" && request.headers.get(REQUEST_KIND_HEADER) === "document";
+}
+
+function replayDocument(request: Request, cached: CachedDocument, fingerprint: string): Response {
+  const nonce = randomBytes(16).toString("base64");
+  const headers = new Headers(cached.headers);
+  headers.set("Content-Security-Policy", documentCspFor(nonce));
+  headers.set("ETag", `W/"${fingerprint}.${nonce}"`);
+  headers.set("X-Tidewire-Render", "cached");
+  if (request.method === "HEAD") return new Response(null, { status: 200, headers });
+  const nonceBytes = Buffer.from(nonce, "utf8");
+  const chunks: Buffer[] = [];
+  cached.parts.forEach((p, i) => (i ? chunks.push(nonceBytes, p) : chunks.push(p)));
+  return new Response(Buffer.concat(chunks), { status: 200, headers });
+}

@@ -5,6 +5,23 @@ import { formatLocal } from "./format";
 import { NoticeBadges } from "./NoticeBadges";
 
 type Col = { key: string; label: string; sortable?: boolean };
+
+/** What a row of the table shows (pages may send just this much of each notice). */
+export type NoticeRowData = Pick<NoticeView, "id" | "seriesNumber" | "title" | "locality" | "generalType" | "urgency" | "effectiveStatus" | "validFrom" | "validUntil">;
+
+export function noticeRowData(n: NoticeView): NoticeRowData {
+  return {
+    id: n.id,
+    seriesNumber: n.seriesNumber,
+    title: n.title,
+    locality: n.locality,
+    generalType: n.generalType,
+    urgency: n.urgency,
+    effectiveStatus: n.effectiveStatus,
+    validFrom: n.validFrom,
+    validUntil: n.validUntil,
+  };
+}
 const COLS: Col[] = [
   { key: "number", label: "Number", sortable: true },
   { key: "title", label: "Notice", sortable: true },
@@ -27,12 +44,12 @@ export function NoticeTable({
   hrefFor = (n) => `/notices/${n.id}`,
   caption,
 }: {
-  notices: NoticeView[];
+  notices: NoticeRowData[];
   zone: string;
   sort?: string;
   dir?: "asc" | "desc";
   sortHref?: (key: string, dir: "asc" | "desc") => string;
-  hrefFor?: (n: NoticeView) => string;
+  hrefFor?: (n: NoticeRowData) => string;
   caption: string;
 }) {
   return (

@@ -56,6 +56,10 @@ describe("outbox worker", () => {
     expect(acceptedBeforeKill).toBeGreaterThanOrEqual(25);
     expect((await statusCounts(prefix)).sending).toBeGreaterThan(0); // claimed, not sent: leases pending
 
+    // Release only once the sink has seen the killed worker's connections close: a held message
+    // released on a connection the sink still thinks is open would be accepted after all (and
+    // then sent again by the next worker). On a loaded machine the close can take a moment.
+    await until("the killed worker's connections to close", async () => gate.held() === 0);
     gate.release(); // the killed worker's connections are gone: their held messages were never accepted
     const second = startWorker(env);
     try {
