@@ -2,13 +2,12 @@
 import "ol/ol.css";
 import OlMap from "ol/Map";
 import View from "ol/View";
-import type Feature from "ol/Feature";
+import Feature from "ol/Feature";
 import type { FeatureLike } from "ol/Feature";
 import GeoJSON from "ol/format/GeoJSON";
-import type { Geometry } from "ol/geom";
+import { LineString, Point, type Geometry } from "ol/geom";
 import type { Circle as OlCircle, LineString as OlLineString, Point as OlPoint, Polygon as OlPolygon } from "ol/geom";
 import Draw from "ol/interaction/Draw";
-import Graticule from "ol/layer/Graticule";
 import TileLayer from "ol/layer/Tile";
 import VectorLayer from "ol/layer/Vector";
 import { fromLonLat, toLonLat, transformExtent } from "ol/proj";
@@ -176,6 +175,59 @@ const ddm = (v: number, pos: string, neg: string) => {
   return `${d}°${m.toFixed(m % 1 < 0.01 || m % 1 > 0.99 ? 0 : 1).padStart(2, "0")}′${v >= 0 ? pos : neg}`;
 };
 
+const GRATICULE_INTERVALS_DEG = [10, 5, 2, 1, 0.5, 0.2, 1 / 12, 1 / 30, 1 / 60];
+const GRATICULE_LINE = new Style({ stroke: new Stroke({ color: "rgba(15,37,48,0.25)", width: 1, lineDash: [2, 4] }) });
+const graticuleLabel = (text: string, edge: "bottom" | "right") =>
+  new Style({
+    text: new Text({
+      text,
+      font: "12px 'Public Sans', sans-serif",
+      fill: new Fill({ color: "#0f2530" }),
+      stroke: new Stroke({ color: "rgba(255,255,255,0.9)", width: 3 }),
+      textAlign: edge === "bottom" ? "center" : "end",
+      textBaseline: edge === "bottom" ? "bottom" : "middle",
+      offsetX: edge === "right" ? -4 : 0,
+      offsetY: edge === "bottom" ? -2 : 0,
+    }),
+  });
+
+/**
+ * Meridians and parallels about the visible extent, at the finest interval that keeps them at
+ * least 100 px apart, with DDM labels along the bottom and right edges as on a chart border.
+ * In Web Mercator both are straight lines, so two points make each line: OpenLayers' Graticule
+ * layer (which samples every line so that it works in any projection) was the costliest layer
+ * to draw. Lines run a view's width and height past each edge, so a pan shows them before they
+ * are computed again at the end of the move.
+ */
+function graticule(map: OlMap): Feature<Geometry>[] {
+  const size = map.getSize();
+  if (!size || !size[0] || !size[1]) return [];
+  const [minLon, minLat, maxLon, maxLat] = transformExtent(map.getView().calculateExtent(size), "EPSG:3857", "EPSG:4326") as [number, number, number, number];
+  if (!(maxLon > minLon) || !(maxLat > minLat)) return [];
+  const pxPerDeg = size[0] / (maxLon - minLon);
+  const step = [...GRATICULE_INTERVALS_DEG].reverse().find((d) => d * pxPerDeg >= 100) ?? GRATICULE_INTERVALS_DEG[0]!;
+  const w = maxLon - minLon;
+  const south = Math.max(-85, minLat - (maxLat - minLat));
+  const north = Math.min(85, maxLat + (maxLat - minLat));
+  const out: Feature<Geometry>[] = [];
+  const add = (geometry: Geometry, style: Style) => {
+    const f = new Feature(geometry);
+    f.setStyle(style);
+    out.push(f);
+  };
+  for (let k = Math.ceil((minLon - w) / step); k * step <= maxLon + w; k++) {
+    const lon = k * step;
+    add(new LineString([fromLonLat([lon, south]), fromLonLat([lon, north])]), GRATICULE_LINE);
+    if (lon >= minLon && lon <= maxLon) add(new Point(fromLonLat([lon, minLat])), graticuleLabel(ddm(lon, "E", "W"), "bottom"));
+  }
+  for (let k = Math.ceil(south / step); k * step <= north; k++) {
+    const lat = k * step;
+    add(new LineString([fromLonLat([minLon - w, lat]), fromLonLat([maxLon + w, lat])]), GRATICULE_LINE);
+    if (lat >= minLat && lat <= maxLat) add(new Point(fromLonLat([maxLon, lat])), graticuleLabel(ddm(lat, "N", "S"), "right"));
+  }
+  return out;
+}
+
 export default function MapViewClient(props: MapViewProps) {
   const target = useRef<HTMLDivElement>(null);
   const mapRef = useRef<OlMap | null>(null);
@@ -203,23 +255,21 @@ export default function MapViewClient(props: MapViewProps) {
     );
     const map = new OlMap({ target: target.current, layers, view: new View({ center: fromLonLat([3.04, 55.21]), zoom: 12, maxZoom: 19 }) });
     // Drawn in three steps, each in a task of its own after the frame before it: the base map,
-    // then the features (symbols and labels), then the graticule (lines and DDM labels, the
-    // costliest layer). One frame with everything was a ~270 ms task under the 4× CPU slowdown of
-    // Lighthouse's mobile preset, blocking input all that time.
+    // then the features (symbols and labels), then the graticule. One frame with everything was a
+    // ~270 ms task under the 4× CPU slowdown of Lighthouse's mobile preset, blocking input.
+    const graticuleSource = new VectorSource();
+    let graticuleShown = false;
+    const drawGraticule = () => {
+      graticuleSource.clear(true);
+      graticuleSource.addFeatures(graticule(map));
+    };
     const steps = [
       () => featureGroup.current.setVisible(true),
-      () =>
-        map.getLayers().insertAt(
-          map.getLayers().getLength() - 1,
-          new Graticule({
-            strokeStyle: new Stroke({ color: "rgba(15,37,48,0.25)", width: 1, lineDash: [2, 4] }),
-            showLabels: true,
-            wrapX: false,
-            lonLabelFormatter: (lon: number) => ddm(lon, "E", "W"),
-            latLabelFormatter: (lat: number) => ddm(lat, "N", "S"),
-            intervals: [10, 5, 2, 1, 0.5, 0.2, 1 / 12, 1 / 30, 1 / 60],
-          }),
-        ),
+      () => {
+        graticuleShown = true;
+        drawGraticule();
+        map.getLayers().insertAt(map.getLayers().getLength() - 1, new VectorLayer({ source: graticuleSource }));
+      },
     ];
     let stepTimer: ReturnType<typeof setTimeout> | undefined;
     const nextStep = () => {
@@ -232,6 +282,7 @@ export default function MapViewClient(props: MapViewProps) {
     };
     map.once("postrender", nextStep);
     map.on("moveend", () => {
+      if (graticuleShown) drawGraticule();
       const bbox = visibleBbox(map);
       if (bbox) handlers.current.onMoveEnd?.(bbox);
     });
