@@ -6,8 +6,9 @@ import { createServer } from "node:http";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import compression from "compression";
-import { createRequestListener } from "@react-router/node";
-import { RouterContextProvider, type ServerBuild } from "react-router";
+import { createRequestListener } from "@mjackson/node-fetch-server";
+import pLimit from "p-limit";
+import { createRequestHandler, RouterContextProvider, type ServerBuild } from "react-router";
 import { CLIENT_ADDRESS_HEADER, clientAddressContext, REQUEST_KIND_HEADER } from "../app/context";
 import sirv from "sirv";
 
@@ -26,14 +27,30 @@ if (cluster.isPrimary && workers > 1) {
   });
 } else {
   const build: ServerBuild = await import(pathToFileURL(path.join(buildDir, "server/index.js")).href);
-  const handler = createRequestListener({
-    build,
-    mode: "production",
-    getLoadContext(_request, client) {
-      const context = new RouterContextProvider();
-      context.set(clientAddressContext, client.address);
-      return context;
-    },
+  const handleRequest = createRequestHandler(build, "production");
+  // Fair admission: at most MAX_IN_FLIGHT requests are inside the app at once, the rest wait in
+  // arrival order. Without it, node:http under overload serves some connections again and again
+  // while others wait for seconds (wrk at 200 connections saw 10 s timeouts even on a bare
+  // handler); it also keeps concurrent database work below the pool's size. A slot is held
+  // until the response is ready, not while it is written or while a body arrives: small bodies
+  // are read before admission, large ones (photo uploads) bypass the queue.
+  const admit = pLimit(Number(process.env.MAX_IN_FLIGHT ?? 8));
+  const SMALL_BODY_BYTES = 64 * 1024;
+  const handler = createRequestListener(async (request, client) => {
+    const context = new RouterContextProvider();
+    context.set(clientAddressContext, client.address);
+    if (request.body) {
+      const length = Number(request.headers.get("content-length") ?? Number.NaN);
+      if (!(length <= SMALL_BODY_BYTES)) return handleRequest(request, context);
+      const body = await request.arrayBuffer();
+      request = new Request(request.url, { method: request.method, headers: request.headers, body, signal: request.signal });
+    }
+    // Each admitted request first lets the event loop poll for I/O once: without that yield the
+    // queue drains in one burst of promise callbacks and the unfairness comes back.
+    return admit(async () => {
+      await new Promise((resolve) => setImmediate(resolve));
+      return handleRequest(request, context);
+    });
   });
   // Fingerprinted assets never change: cache for a year. Other public files: an hour.
   const assets = sirv(path.join(buildDir, "client"), {

@@ -7,17 +7,27 @@ import { NoticeBadges } from "~/components/notices/NoticeBadges";
 import { renderBroadcast } from "~/lib/notices/broadcast";
 import { getDefaultHarbour } from "~/models/harbour.server";
 import { lastPublicChange, listInForce } from "~/models/notice.server";
-import { getOptionalUser } from "~/services/auth.server";
-import { conditionalGet, forwardCacheHeaders, pageCacheHeaders } from "~/services/http-cache.server";
+import { publicRevision } from "~/models/public-revision.server";
+import { forwardCacheHeaders, memoPayload, validatedHeaders, validatedPage } from "~/services/http-cache.server";
 
-export const middleware: Route.MiddlewareFunction[] = [conditionalGet];
+// The bulletin says when it was generated, to the minute.
+export const middleware: Route.MiddlewareFunction[] = [
+  validatedPage(async () => {
+    const r = await publicRevision();
+    return [r.notices, r.lapsedAt, new Date().toISOString().slice(0, 16)];
+  }),
+];
 export const headers = forwardCacheHeaders;
 export const meta: Route.MetaFunction = () => [{ title: "Bulletin of notices in force · Tidewire" }];
 export const links: Route.LinksFunction = () => [{ rel: "stylesheet", href: "/notice-print.css", media: "print" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
+export async function loader({ request, context }: Route.LoaderArgs) {
   // Public page.
-  const user = await getOptionalUser(request);
+  const payload = await memoPayload(context, buildPayload);
+  return data(payload, { headers: validatedHeaders(request, context, { lastModified: payload.lastChange }) });
+}
+
+async function buildPayload() {
   const harbour = await getDefaultHarbour();
   const [notices, lastChange] = await Promise.all([listInForce(harbour?.id), lastPublicChange()]);
   const generatedAt = new Date().toISOString();
@@ -26,9 +36,10 @@ export async function loader({ request }: Route.LoaderArgs) {
     zone: harbour?.timeZone ?? "Europe/London",
     vhf: harbour?.vhfContact ?? null,
     generatedAt,
+    lastChange,
     notices: notices.map((n) => ({ id: n.id, seriesNumber: n.seriesNumber, title: n.title, urgency: n.urgency, status: n.effectiveStatus, validFrom: n.validFrom, validUntil: n.validUntil, text: renderBroadcast(n) })),
   };
-  return data(payload, { headers: pageCacheHeaders(request, { lastChange, ids: notices.map((n) => `${n.id}:${n.version}`), minute: generatedAt.slice(0, 16) }, { lastModified: lastChange, userId: user?.id }) });
+  return payload;
 }
 
 export default function Bulletin({ loaderData }: Route.ComponentProps) {

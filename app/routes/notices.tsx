@@ -8,25 +8,32 @@ import { listHref, parseListQuery } from "~/lib/notices/list-query";
 import { GENERAL_TYPES } from "~/lib/notices/vocabulary";
 import { getDefaultHarbour } from "~/models/harbour.server";
 import { listNotices } from "~/models/notice.server";
-import { getOptionalUser } from "~/services/auth.server";
-import { conditionalGet, forwardCacheHeaders, pageCacheHeaders } from "~/services/http-cache.server";
+import { publicRevision } from "~/models/public-revision.server";
+import { forwardCacheHeaders, memoPayload, validatedHeaders, validatedPage } from "~/services/http-cache.server";
 
-export const middleware: Route.MiddlewareFunction[] = [conditionalGet];
+// Lists only notices (the search params are part of the fingerprint).
+export const middleware: Route.MiddlewareFunction[] = [
+  validatedPage(async () => {
+    const r = await publicRevision();
+    return [r.notices, r.lapsedAt];
+  }),
+];
 export const headers = forwardCacheHeaders;
 export const meta: Route.MetaFunction = () => [{ title: "All notices · Tidewire · Kestrel Sound" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
+export async function loader({ request, context }: Route.LoaderArgs) {
   // Public page (drafts are never listed here).
-  const user = await getOptionalUser(request);
+  const payload = await memoPayload(context, () => buildPayload(request));
+  return data(payload, { headers: validatedHeaders(request, context, { lastModified: payload.lastModified }) });
+}
+
+async function buildPayload(request: Request) {
   const url = new URL(request.url);
   const q = parseListQuery(url.searchParams);
   const status = q.status === "draft" ? "in_force" : q.status;
   const harbour = await getDefaultHarbour();
   const result = await listNotices({ harbourId: harbour?.id, status, generalTypes: q.type ? [q.type] : undefined, urgency: q.urgency, q: q.q, sort: q.sort, dir: q.dir, page: q.page, perPage: 25 });
-  const payload = { q: { ...q, status }, zone: harbour?.timeZone ?? "Europe/London", ...result };
-  return data(payload, {
-    headers: pageCacheHeaders(request, { q: url.search, ids: result.notices.map((n) => `${n.id}:${n.version}:${n.effectiveStatus}`), total: result.total, m: result.lastModified }, { lastModified: result.lastModified, userId: user?.id }),
-  });
+  return { q: { ...q, status }, zone: harbour?.timeZone ?? "Europe/London", ...result };
 }
 
 const STATUS_OPTIONS = [
