@@ -26,6 +26,34 @@ const chrome = await chromeLauncher.launch({
   chromeFlags: [...CHROMIUM_ARGS, "--headless=new"],
   envVars: { ...process.env, XDG_CONFIG_HOME: join(LOCAL, "xdg", "config"), XDG_CACHE_HOME: join(LOCAL, "xdg", "cache") } as Record<string, string>,
 });
+type Lhr = Awaited<ReturnType<typeof lighthouse>> extends infer R ? (R extends { lhr: infer L } ? L : never) : never;
+/**
+ * Diagnostics for one run: the metrics the performance score is made of, the main-thread time
+ * over 50 ms per long task (what total blocking time sums) by script, and Lighthouse's own error
+ * when the run failed (a failed run scores 0; NO_NAVSTART is a trace-recording flake).
+ */
+function describeRun(lhr: Lhr): string {
+  if (lhr.runtimeError) return `Lighthouse error ${lhr.runtimeError.code}: ${lhr.runtimeError.message}`;
+  const a = lhr.audits;
+  const metric = (id: string, label: string) => `${label} ${a[id]?.displayValue ?? "?"}`;
+  const blocking = new Map<string, number>();
+  const tasks = (a["long-tasks"]?.details as { items?: Array<{ url?: string; duration?: number }> } | undefined)?.items ?? [];
+  for (const t of tasks) {
+    const name = (t.url ?? "").replace(/^https?:\/\/[^/]+/, "") || "(page)";
+    blocking.set(name, (blocking.get(name) ?? 0) + Math.max(0, (t.duration ?? 0) - 50));
+  }
+  const byScript = [...blocking].sort((x, y) => y[1] - x[1]).slice(0, 5).map(([u, ms]) => `${u} ${Math.round(ms)} ms`);
+  return [
+    `performance ${Math.round((lhr.categories.performance?.score ?? 0) * 100)}`,
+    metric("first-contentful-paint", "FCP"),
+    metric("largest-contentful-paint", "LCP"),
+    metric("total-blocking-time", "TBT"),
+    metric("cumulative-layout-shift", "CLS"),
+    metric("speed-index", "SI"),
+    byScript.length ? `long-task time over 50 ms: ${byScript.join(", ")}` : "no long tasks",
+  ].join("; ");
+}
+
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
 let ok = true;
 const lines: string[] = [];
@@ -39,6 +67,7 @@ try {
   for (const [name, path] of pages) {
     const scores: Record<Category, number[]> = { accessibility: [], "best-practices": [], performance: [] };
     const audits: string[] = [];
+    const runLines: string[] = [];
     for (let i = 0; i < RUNS; i++) {
       const r = await lighthouse(
         stack.baseURL + path,
@@ -48,6 +77,7 @@ try {
       if (!r) throw new Error(`lighthouse returned nothing for ${path}`);
       writeFileSync(join(out, `${name.replace(/\s+/g, "-")}-${i + 1}.json`), typeof r.report === "string" ? r.report : JSON.stringify(r.lhr));
       for (const c of Object.keys(GOALS) as Category[]) scores[c].push(Math.round((r.lhr.categories[c]?.score ?? 0) * 100));
+      runLines.push(`  run ${i + 1}: ${describeRun(r.lhr)}`);
       if (i === 0) {
         for (const a of Object.values(r.lhr.audits)) {
           if (a.score !== null && a.score < 1 && (a.scoreDisplayMode === "binary" || a.scoreDisplayMode === "metricSavings" || a.scoreDisplayMode === "numeric")) audits.push(`${a.id}: ${a.displayValue ?? a.score}`);
@@ -59,6 +89,7 @@ try {
     for (const c of Object.keys(GOALS) as Category[]) if (med[c] < GOALS[c]) ok = false;
     lines.push(`${name} ${path} [${flags.preset}]: ${verdict.join("; ")}`);
     if (audits.length) lines.push(`  audits below full score: ${audits.slice(0, 12).join("; ")}`);
+    lines.push(...runLines);
   }
 } finally {
   await chrome.kill();

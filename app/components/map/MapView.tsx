@@ -71,9 +71,12 @@ function useHydrated(): boolean {
 export function MapView(props: MapViewProps) {
   const hydrated = useHydrated();
   const height = props.height ?? "24rem";
+  // Without JavaScript the map never loads: say so instead of "Loading map…" (hidden by app.css
+  // when scripting is off).
   const placeholder = (
-    <div className="flex h-full items-center justify-center text-sm text-slate" aria-hidden="true">
-      Loading map…
+    <div className="flex h-full items-center justify-center px-4 text-center text-sm text-slate" aria-hidden="true">
+      <span className="map-loading">Loading map…</span>
+      <noscript>The map needs JavaScript. What it shows is also given as text on this page.</noscript>
     </div>
   );
   return (
