@@ -8,13 +8,11 @@ import GeoJSON from "ol/format/GeoJSON";
 import { LineString, Point, type Geometry } from "ol/geom";
 import type { Circle as OlCircle, LineString as OlLineString, Point as OlPoint, Polygon as OlPolygon } from "ol/geom";
 import Draw from "ol/interaction/Draw";
-import TileLayer from "ol/layer/Tile";
 import VectorLayer from "ol/layer/Vector";
 import { fromLonLat, toLonLat, transformExtent } from "ol/proj";
 import { createEmpty, extend, getCenter, isEmpty } from "ol/extent";
 import LayerGroup from "ol/layer/Group";
 import VectorSource from "ol/source/Vector";
-import XYZ from "ol/source/XYZ";
 import { Circle as CircleStyle, Fill, Icon, Stroke, Style, Text } from "ol/style";
 import { useEffect, useRef } from "react";
 import { direct, inverse } from "~/lib/geo/geodesy";
@@ -245,7 +243,6 @@ export default function MapViewClient(props: MapViewProps) {
   useEffect(() => {
     if (!target.current) return;
     const layers = [];
-    if (props.tileUrl) layers.push(new TileLayer({ source: new XYZ({ url: props.tileUrl, crossOrigin: "anonymous" }) }));
     layers.push(
       new VectorLayer({
         source: baseSource.current,
@@ -281,6 +278,14 @@ export default function MapViewClient(props: MapViewProps) {
       }, 0);
     };
     map.once("postrender", nextStep);
+    // Tiles only where a tile service is configured (MAP_TILE_URL): their code is a chunk of its own.
+    let live = true;
+    if (props.tileUrl) {
+      const url = props.tileUrl;
+      void Promise.all([import("ol/layer/Tile"), import("ol/source/XYZ")]).then(([{ default: TileLayer }, { default: XYZ }]) => {
+        if (live) map.getLayers().insertAt(0, new TileLayer({ source: new XYZ({ url, crossOrigin: "anonymous" }) }));
+      });
+    }
     map.on("moveend", () => {
       if (graticuleShown) drawGraticule();
       const bbox = visibleBbox(map);
@@ -301,6 +306,7 @@ export default function MapViewClient(props: MapViewProps) {
     });
     mapRef.current = map;
     return () => {
+      live = false;
       clearTimeout(stepTimer);
       map.setTarget(undefined);
       mapRef.current = null;
