@@ -4,7 +4,8 @@ import { jsonError } from "~/lib/http";
 import { encodeCursor, parseApiQuery } from "~/lib/notices/api-query";
 import { noticeToFeature } from "~/lib/notices/geojson";
 import { listNoticesForApi } from "~/models/notice.server";
-import { cachedResponse } from "~/services/http-cache.server";
+import { publicRevision } from "~/models/public-revision.server";
+import { validatedResource } from "~/services/http-cache.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   // Public read: no guard beyond validation (drafts are never listed here).
@@ -12,35 +13,38 @@ export async function loader({ request }: Route.LoaderArgs) {
   const parsed = parseApiQuery(url.searchParams);
   if (!parsed.ok) return jsonError(parsed.error, parsed.field, 400, { "Cache-Control": "no-store" });
   const q = parsed.query;
-  const { notices, nextAfterId } = await listNoticesForApi({
-    bbox: q.bbox,
-    status: q.status,
-    generalTypes: q.type,
-    urgency: q.urgency,
-    since: q.since,
-    updatedSince: q.updatedSince,
-    afterId: q.cursor,
-    limit: q.limit,
-  });
-  const base = url.origin;
-  let next: string | null = null;
-  if (nextAfterId) {
-    const n = new URL(url);
-    n.searchParams.set("cursor", encodeCursor(nextAfterId));
-    next = n.toString();
-  }
-  const body = {
-    type: "FeatureCollection",
-    features: notices.map((n) => noticeToFeature(n, { baseUrl: base })),
-    // Foreign members (RFC 7946 §6.1).
-    numberReturned: notices.length,
-    links: [{ rel: "self", href: url.toString() }, ...(next ? [{ rel: "next", href: next }] : [])],
-  };
-  const lastModified = notices.reduce<Date | null>((m, n) => (!m || new Date(n.updatedAt) > m ? new Date(n.updatedAt) : m), null);
-  return cachedResponse(request, JSON.stringify(body), {
-    contentType: "application/geo+json; charset=utf-8",
-    lastModified,
-    maxAgeS: 10,
-    extraHeaders: { "Access-Control-Allow-Origin": "*", ...(next ? { Link: `<${next}>; rel="next"` } : {}) },
-  });
+  // Which notices are in force also moves with the clock (lapsedAt), not only with writes.
+  const r = await publicRevision();
+  return validatedResource(
+    request,
+    [r.notices, r.lapsedAt],
+    async () => {
+      const { notices, nextAfterId } = await listNoticesForApi({
+        bbox: q.bbox,
+        status: q.status,
+        generalTypes: q.type,
+        urgency: q.urgency,
+        since: q.since,
+        updatedSince: q.updatedSince,
+        afterId: q.cursor,
+        limit: q.limit,
+      });
+      let next: string | null = null;
+      if (nextAfterId) {
+        const n = new URL(url);
+        n.searchParams.set("cursor", encodeCursor(nextAfterId));
+        next = n.toString();
+      }
+      const body = {
+        type: "FeatureCollection",
+        features: notices.map((n) => noticeToFeature(n, { baseUrl: url.origin })),
+        // Foreign members (RFC 7946 §6.1).
+        numberReturned: notices.length,
+        links: [{ rel: "self", href: url.toString() }, ...(next ? [{ rel: "next", href: next }] : [])],
+      };
+      const lastModified = notices.reduce<Date | null>((m, n) => (!m || new Date(n.updatedAt) > m ? new Date(n.updatedAt) : m), null);
+      return { body: JSON.stringify(body), lastModified, headers: next ? { Link: `<${next}>; rel="next"` } : ({} as Record<string, string>) };
+    },
+    { contentType: "application/geo+json; charset=utf-8", maxAgeS: 10, headers: { "Access-Control-Allow-Origin": "*" } },
+  );
 }

@@ -262,3 +262,37 @@ function replayDocument(request: Request, cached: CachedDocument, fingerprint: s
   cached.parts.forEach((p, i) => (i ? chunks.push(nonceBytes, p) : chunks.push(p)));
   return new Response(Buffer.concat(chunks), { status: 200, headers });
 }
+
+const resourceBodies = new LRUCache<string, { body: string; lastModified: Date | null; headers: Record<string, string> }>({
+  maxSize: 32 * 1024 * 1024,
+  sizeCalculation: (v) => v.body.length * 2 + 256,
+  ttl: 15 * 60_000,
+});
+
+/**
+ * A public resource (API, feed) with the same validator as the pages: `dependsOn` comes from one
+ * cheap query (e.g. publicRevision()); with the build and the URL it is the ETag, so a
+ * revalidation is answered before `build` runs any query, and a body built for the same
+ * fingerprint is reused. `headers` go on every answer (e.g. CORS); `build` may add its own.
+ */
+export async function validatedResource(
+  request: Request,
+  dependsOn: unknown,
+  build: () => Promise<{ body: string; lastModified?: Date | null; headers?: Record<string, string> }>,
+  opts: { contentType: string; maxAgeS?: number; headers?: Record<string, string> },
+): Promise<Response> {
+  const url = new URL(request.url);
+  const fingerprint = weakTag(JSON.stringify([BUILD_ID, url.pathname, url.search, dependsOn]));
+  const headers = new Headers({ ETag: `W/"${fingerprint}"`, "Cache-Control": cacheControl(request, opts.maxAgeS ?? 60), Vary: "Accept-Encoding", ...opts.headers });
+  if (matches(request.headers.get("If-None-Match"), fingerprint)) return new Response(null, { status: 304, headers });
+  let entry = resourceBodies.get(fingerprint);
+  if (!entry) {
+    const built = await build();
+    entry = { body: built.body, lastModified: built.lastModified ?? null, headers: built.headers ?? {} };
+    resourceBodies.set(fingerprint, entry);
+  }
+  for (const [k, v] of Object.entries(entry.headers)) headers.set(k, v);
+  if (entry.lastModified) headers.set("Last-Modified", new Date(Math.floor(entry.lastModified.getTime() / 1000) * 1000).toUTCString());
+  headers.set("Content-Type", opts.contentType);
+  return new Response(request.method === "HEAD" ? null : entry.body, { status: 200, headers });
+}

@@ -86,6 +86,25 @@ describe("validated pages", () => {
     expect(restored.text).not.toContain("(amended ");
   });
 
+  it("the notices API: 304 from the validator, and a write shows in the next answer", async () => {
+    const n = await inForceNotice();
+    const first = await request(base(), "/api/v1/notices?limit=500");
+    expect(first.status).toBe(200);
+    const etag = first.headers.get("ETag")!;
+    const again = await request(base(), "/api/v1/notices?limit=500", { headers: { "If-None-Match": etag } });
+    expect(again.status).toBe(304);
+    expect(again.headers.get("Access-Control-Allow-Origin")).toBe("*");
+    const changed = `${n.title} (api ${Date.now()})`;
+    try {
+      await qdb()("notices").where({ id: n.id }).update({ title: changed });
+      const after = await request(base(), "/api/v1/notices?limit=500", { headers: { "If-None-Match": etag } });
+      expect(after.status).toBe(200);
+      expect(after.json.features.find((f: { id: number }) => f.id === n.id).properties.title).toBe(changed);
+    } finally {
+      await qdb()("notices").where({ id: n.id }).update({ title: n.title });
+    }
+  });
+
   it("a notice that lapses by the clock leaves the board without any write at that moment", async () => {
     const n = await inForceNotice();
     const until = new Date(Date.now() + 2_500);
