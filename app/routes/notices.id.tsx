@@ -85,7 +85,7 @@ export default function NoticePage({ loaderData }: Route.ComponentProps) {
         <Link to="/">Notice board</Link> › <Link to="/notices">All notices</Link> › {n.seriesNumber ?? "Draft"}
       </nav>
       <Caution compact />
-      <div className="grid gap-6 lg:grid-cols-[1fr_26rem]">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,1fr)_26rem]">
         <NoticeDetail notice={n} zone={d.zone} positions={d.positions} crsLabels={d.crsLabels} chosenCrsLabel={d.chosenCrsLabel} />
         <aside className="space-y-4">
           <div className="notice-map">
