@@ -62,13 +62,15 @@ export function SubscriptionFields({
             {errors.areaKind}
           </p>
         ) : null}
-        {/* Both area inputs stay readable (dimming them failed contrast); the choice above says which is used. */}
+        {/* Both area inputs stay readable (dimming them failed contrast); the choice above says which is used.
+            Monospace in the inputs only: the "position" class on the whole field kept its label and hint on
+            one line and widened the page past a phone's screen. */}
         <div className="grid gap-3 sm:grid-cols-[1fr_10rem]">
-          <Field label="Centre (WGS 84)" name="centre" className="position" placeholder="55°12.00′N 003°02.00′E" value={area.centre} onChange={(e) => update({ centre: e.currentTarget.value })} error={errors.centre} hint="Degrees and minutes, decimal degrees or DMS; N/S E/W or signs." />
+          <Field label="Centre (WGS 84)" name="centre" className="[&_.field-input]:font-mono" placeholder="55°12.00′N 003°02.00′E" value={area.centre} onChange={(e) => update({ centre: e.currentTarget.value })} error={errors.centre} hint="Degrees and minutes, decimal degrees or DMS; N/S E/W or signs." />
           <Field label="Radius (M)" name="radiusNm" inputMode="decimal" placeholder="1.5" value={area.radiusNm} onChange={(e) => update({ radiusNm: e.currentTarget.value })} error={errors.radiusNm} hint="Nautical miles." />
         </div>
         <div>
-          <TextArea label="Polygon corners (WGS 84), one position per line" name="polygon" rows={5} className="position" placeholder={"55°13.0′N 003°00.0′E\n55°13.0′N 003°04.0′E\n55°11.0′N 003°04.0′E\n55°11.0′N 003°00.0′E"} value={area.polygon} onChange={(e) => update({ polygon: e.currentTarget.value })} error={errors.polygon} hint="At least three corners in order around the area; the polygon is closed for you." />
+          <TextArea label="Polygon corners (WGS 84), one position per line" name="polygon" rows={5} className="[&_.field-input]:font-mono" placeholder={"55°13.0′N 003°00.0′E\n55°13.0′N 003°04.0′E\n55°11.0′N 003°04.0′E\n55°11.0′N 003°00.0′E"} value={area.polygon} onChange={(e) => update({ polygon: e.currentTarget.value })} error={errors.polygon} hint="At least three corners in order around the area; the polygon is closed for you." />
         </div>
         {map ? <SubscriptionMap fields={area} onChange={update} basemap={map.basemap} tileUrl={map.tileUrl} /> : null}
       </fieldset>
