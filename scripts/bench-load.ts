@@ -270,26 +270,36 @@ try {
   }
 
   if (!flags["no-profile"]) {
-    console.log("\n[bench] CPU profile of the board's server rendering (node --cpu-prof, 50 connections)");
-    const profDir = join(LOCAL, "bench-load", "profile");
-    mkdirSync(profDir, { recursive: true });
-    const profPort = await freePort();
-    const prof = spawnChild("app (profiled)", process.execPath, ["--cpu-prof", "--cpu-prof-dir", profDir, "--import", "tsx", "scripts/serve.ts"], {
-      env: { ...appEnv, BUILD_DIR: stack.buildDir, PORT: String(profPort), APP_URL: `http://127.0.0.1:${profPort}` },
-      quiet: true,
-    });
-    children.push(prof);
-    await waitForHttp(`http://127.0.0.1:${profPort}/healthz`, prof);
-    const pr = wrk("profiled board", `http://127.0.0.1:${profPort}/`, { connections: 50, durationS: Math.min(DURATION_S, 10) });
-    prof.proc.kill("SIGTERM");
-    await prof.exited;
-    const file = readdirSync(profDir).filter((f) => f.endsWith(".cpuprofile")).map((f) => join(profDir, f))[0];
-    if (file) {
-      const summary = summariseProfile(file, pr.requests);
-      extra.profile = summary;
-      console.log(`  profile ${file}: ${pr.requests} requests`);
-      for (const l of summary.lines) console.log(`  ${l}`);
+    // Two profiles: the board as most readers get it (from the page cache) and with a new URL
+    // per request (the whole rendering path: loaders, serialisation, React).
+    const profiles: Record<string, unknown> = {};
+    for (const [label, path, bust] of [
+      ["board (cached copies)", "/", false],
+      ["board without caches (a new URL per request)", "/?v=BUST", true],
+    ] as const) {
+      console.log(`\n[bench] CPU profile: ${label} (node --cpu-prof, 50 connections)`);
+      const profDir = join(LOCAL, "bench-load", `profile-${bust ? "uncached" : "cached"}`);
+      rmSync(profDir, { recursive: true, force: true });
+      mkdirSync(profDir, { recursive: true });
+      const profPort = await freePort();
+      const prof = spawnChild("app (profiled)", process.execPath, ["--cpu-prof", "--cpu-prof-dir", profDir, "--import", "tsx", "scripts/serve.ts"], {
+        env: { ...appEnv, BUILD_DIR: stack.buildDir, PORT: String(profPort), APP_URL: `http://127.0.0.1:${profPort}` },
+        quiet: true,
+      });
+      children.push(prof);
+      await waitForHttp(`http://127.0.0.1:${profPort}/healthz`, prof);
+      const pr = wrk(`profiled ${label}`, `http://127.0.0.1:${profPort}${path}`, { connections: 50, durationS: Math.min(DURATION_S, 10), bust });
+      prof.proc.kill("SIGTERM");
+      await prof.exited;
+      const file = readdirSync(profDir).filter((f) => f.endsWith(".cpuprofile")).map((f) => join(profDir, f))[0];
+      if (file) {
+        const summary = summariseProfile(file, pr.requests);
+        profiles[label] = summary;
+        console.log(`  profile ${file}: ${pr.requests} requests`);
+        for (const l of summary.lines) console.log(`  ${l}`);
+      }
     }
+    extra.profile = profiles;
   }
 
   // Ratios and goals.

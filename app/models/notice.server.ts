@@ -333,17 +333,19 @@ export async function listNotices(
 }
 
 /** Every notice in force (board, bulletin), urgent first, then by number. */
-export async function listInForce(harbourId?: number, db: Db = defaultDb, now = new Date()): Promise<NoticeView[]> {
+export async function listInForce(harbourId?: number, db: Db = defaultDb, now = new Date(), opts: { withParts?: boolean } = {}): Promise<NoticeView[]> {
   const q = applyFilter(baseSelect(db), { harbourId, status: "in_force" }, now, db)
     .orderBy("n.urgency", "asc")
     .orderBy("n.year", "desc")
     .orderBy("n.number", "desc")
     .limit(1000);
-  return viewsFor((await q) as NoticeRow[], db, now);
+  const rows = (await q) as NoticeRow[];
+  // Lists that show no positions skip the parts (geometry) query: `parts` is then empty.
+  return opts.withParts === false ? rows.map((r) => toView(r, [], now)) : viewsFor(rows, db, now);
 }
 
 /** Notices that ended (cancelled, superseded, expired) within the last `days`, newest first: the board shows them as ended. */
-export async function listRecentlyEnded(harbourId: number | undefined, days = 14, db: Db = defaultDb, now = new Date()): Promise<NoticeView[]> {
+export async function listRecentlyEnded(harbourId: number | undefined, days = 14, db: Db = defaultDb, now = new Date(), opts: { withParts?: boolean } = {}): Promise<NoticeView[]> {
   const from = new Date(now.getTime() - days * 86_400_000);
   const q = baseSelect(db)
     .where((b) =>
@@ -355,7 +357,8 @@ export async function listRecentlyEnded(harbourId: number | undefined, days = 14
     .orderBy("n.updated_at", "desc")
     .limit(20);
   if (harbourId) q.where("n.harbour_id", harbourId);
-  return viewsFor((await q) as NoticeRow[], db, now);
+  const rows = (await q) as NoticeRow[];
+  return opts.withParts === false ? rows.map((r) => toView(r, [], now)) : viewsFor(rows, db, now);
 }
 
 /** The main statement of an API page (after the bbox step); the benchmark's baseline runs the same SQL. */

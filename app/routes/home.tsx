@@ -42,7 +42,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   // Public page: no guard. The signed-in user only changes the cache key (validatedPage).
   const payload = await memoPayload(context, async () => {
     const harbour = await getDefaultHarbour();
-    const [inForce, ended] = await Promise.all([listInForce(harbour?.id), listRecentlyEnded(harbour?.id)]);
+    const [inForce, ended] = await Promise.all([listInForce(harbour?.id, undefined, undefined, { withParts: false }), listRecentlyEnded(harbour?.id, 14, undefined, undefined, { withParts: false })]);
     return {
       harbourName: harbour?.name ?? "Kestrel Sound",
       authorityName: harbour?.authorityName ?? "",
