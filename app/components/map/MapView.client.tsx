@@ -65,6 +65,18 @@ function newLabel(text: string, offsetY: number): Style {
   });
 }
 
+// Styles made of constants are made once: OpenLayers calls featureStyle for every feature on
+// every frame it redraws, and a CircleStyle draws its own canvas each time one is constructed.
+const styleCache = new Map<string, Style>();
+function cached(key: string, make: () => Style): Style {
+  let s = styleCache.get(key);
+  if (!s) {
+    s = make();
+    styleCache.set(key, s);
+  }
+  return s;
+}
+
 function featureStyle(f: FeatureLike): Style | Style[] {
   const p = f.getProperties() as Record<string, unknown>;
   const symbol = String(p.symbol ?? "");
@@ -74,7 +86,7 @@ function featureStyle(f: FeatureLike): Style | Style[] {
     case "aid": {
       styles.push(iconStyle(aidSymbol(p.ialaCategory as string | null, p.aidType as string | null), 0.9, p.ialaCategory ? 1 : 0.5));
       if (p.status && p.status !== "operating") {
-        styles.push(new Style({ image: new CircleStyle({ radius: 13, stroke: new Stroke({ color: NOTICE_COLOURS.urgent, width: 2, lineDash: [3, 2] }) }) }));
+        styles.push(cached("aid-status", () => new Style({ image: new CircleStyle({ radius: 13, stroke: new Stroke({ color: NOTICE_COLOURS.urgent, width: 2, lineDash: [3, 2] }) }) })));
       }
       const l = label(p.label, 12);
       if (l) styles.push(l);
@@ -87,10 +99,14 @@ function featureStyle(f: FeatureLike): Style | Style[] {
       if (geomType === "Point") styles.push(iconStyle(noticePointSymbol(urgent, ended), 1, 0.5));
       else {
         styles.push(
-          new Style({
-            stroke: new Stroke({ color: colour, width: urgent ? 3 : 2, lineDash: ended ? [6, 4] : undefined }),
-            fill: new Fill({ color: ended ? "rgba(107,119,128,0.12)" : urgent ? "rgba(180,65,11,0.18)" : "rgba(11,79,108,0.15)" }),
-          }),
+          cached(
+            `notice-area|${ended}|${urgent}`,
+            () =>
+              new Style({
+                stroke: new Stroke({ color: colour, width: urgent ? 3 : 2, lineDash: ended ? [6, 4] : undefined }),
+                fill: new Fill({ color: ended ? "rgba(107,119,128,0.12)" : urgent ? "rgba(180,65,11,0.18)" : "rgba(11,79,108,0.15)" }),
+              }),
+          ),
         );
       }
       const l = label(p.label, geomType === "Point" ? 20 : 0);
@@ -99,29 +115,37 @@ function featureStyle(f: FeatureLike): Style | Style[] {
     }
     case "circle":
     case "area":
-      styles.push(new Style({ stroke: new Stroke({ color: String(p.stroke ?? "#1b7f93"), width: 2 }), fill: new Fill({ color: String(p.fill ?? "rgba(27,127,147,0.12)") }) }));
+      styles.push(cached(`area|${String(p.stroke)}|${String(p.fill)}`, () => new Style({ stroke: new Stroke({ color: String(p.stroke ?? "#1b7f93"), width: 2 }), fill: new Fill({ color: String(p.fill ?? "rgba(27,127,147,0.12)") }) })));
       break;
     case "uncertainty":
-      styles.push(new Style({ stroke: new Stroke({ color: String(p.stroke ?? "#b4410b"), width: 2, lineDash: [5, 4] }), fill: new Fill({ color: String(p.fill ?? "rgba(180,65,11,0.08)") }) }));
+      styles.push(cached(`uncertainty|${String(p.stroke)}|${String(p.fill)}`, () => new Style({ stroke: new Stroke({ color: String(p.stroke ?? "#b4410b"), width: 2, lineDash: [5, 4] }), fill: new Fill({ color: String(p.fill ?? "rgba(180,65,11,0.08)") }) })));
       break;
     case "observed":
       styles.push(
-        new Style({
-          image: new CircleStyle({ radius: 6, stroke: new Stroke({ color: "#b4410b", width: 2.5 }), fill: new Fill({ color: "rgba(255,255,255,0.8)" }) }),
-        }),
+        cached(
+          "observed",
+          () =>
+            new Style({
+              image: new CircleStyle({ radius: 6, stroke: new Stroke({ color: "#b4410b", width: 2.5 }), fill: new Fill({ color: "rgba(255,255,255,0.8)" }) }),
+            }),
+        ),
       );
       break;
     case "draft":
       styles.push(
-        new Style({
-          stroke: new Stroke({ color: NOTICE_COLOURS.draft, width: 2.5, lineDash: [6, 4] }),
-          fill: new Fill({ color: "rgba(27,127,147,0.15)" }),
-          image: new CircleStyle({ radius: 6, fill: new Fill({ color: NOTICE_COLOURS.draft }), stroke: new Stroke({ color: "#fff", width: 2 }) }),
-        }),
+        cached(
+          "draft",
+          () =>
+            new Style({
+              stroke: new Stroke({ color: NOTICE_COLOURS.draft, width: 2.5, lineDash: [6, 4] }),
+              fill: new Fill({ color: "rgba(27,127,147,0.15)" }),
+              image: new CircleStyle({ radius: 6, fill: new Fill({ color: NOTICE_COLOURS.draft }), stroke: new Stroke({ color: "#fff", width: 2 }) }),
+            }),
+        ),
       );
       break;
     default:
-      styles.push(new Style({ stroke: new Stroke({ color: "#0b4f6c", width: 2 }), image: new CircleStyle({ radius: 5, fill: new Fill({ color: "#0b4f6c" }) }) }));
+      styles.push(cached("default", () => new Style({ stroke: new Stroke({ color: "#0b4f6c", width: 2 }), image: new CircleStyle({ radius: 5, fill: new Fill({ color: "#0b4f6c" }) }) })));
   }
   const l = label(p.label, geomType === "Point" ? 16 : 0);
   if (l) styles.push(l);
