@@ -4,6 +4,7 @@
 // performance moves with machine load, so each page is run three times and the median taken.
 // Goals: accessibility 100, best practices ≥ 95, performance ≥ 90. Exit 1 when one is missed.
 import { mkdirSync, writeFileSync } from "node:fs";
+import { loadavg } from "node:os";
 import { join } from "node:path";
 import { parseArgs } from "node:util";
 import * as chromeLauncher from "chrome-launcher";
@@ -69,6 +70,8 @@ try {
     const audits: string[] = [];
     const runLines: string[] = [];
     for (let i = 0; i < RUNS; i++) {
+      // Performance and TBT move with the machine's load (other suites on the same 2 cores): print it.
+      const load = loadavg()[0]!.toFixed(1);
       const r = await lighthouse(
         stack.baseURL + path,
         { port: chrome.port, output: "json", logLevel: "error", onlyCategories: Object.keys(GOALS) },
@@ -77,7 +80,7 @@ try {
       if (!r) throw new Error(`lighthouse returned nothing for ${path}`);
       writeFileSync(join(out, `${name.replace(/\s+/g, "-")}-${i + 1}.json`), typeof r.report === "string" ? r.report : JSON.stringify(r.lhr));
       for (const c of Object.keys(GOALS) as Category[]) scores[c].push(Math.round((r.lhr.categories[c]?.score ?? 0) * 100));
-      runLines.push(`  run ${i + 1}: ${describeRun(r.lhr)}`);
+      runLines.push(`  run ${i + 1} (load average ${load}): ${describeRun(r.lhr)}`);
       if (i === 0) {
         for (const a of Object.values(r.lhr.audits)) {
           if (a.score !== null && a.score < 1 && (a.scoreDisplayMode === "binary" || a.scoreDisplayMode === "metricSavings" || a.scoreDisplayMode === "numeric")) audits.push(`${a.id}: ${a.displayValue ?? a.score}`);
