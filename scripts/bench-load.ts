@@ -5,9 +5,10 @@
 // the board page, a notice page, GET /api/v1/notices?bbox=… and POST /api/v1/assessments, each
 // beside two references measured in the same run — a minimal React Router page served by the
 // same scripts/serve.ts (the framework's floor) and a bare node:http + mysql2 handler running
-// the same query as the API — then the 304 path (If-None-Match), the app as two processes
-// (node:cluster, WEB_CONCURRENCY=2) on one database, and a CPU profile of the board's
-// server rendering (node --cpu-prof). Prints throughput, p50/p99, errors and non-2xx/3xx per
+// the same query as the API, in interleaved rounds so the machine's other work falls on both
+// alike — then the same pages and API with a new URL per request (no cache can answer), the
+// 304 path (If-None-Match), the app as two processes (node:cluster, WEB_CONCURRENCY=2) on one
+// database, and CPU profiles of the board from the page cache and without it (node --cpu-prof). Prints throughput, p50/p99, errors and non-2xx/3xx per
 // target and the ratios against the goals; writes .local/bench-load.{json,md}.
 import { spawnSync } from "node:child_process";
 import { mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
@@ -79,6 +80,8 @@ interface WrkResult {
   non2xx3xx: number;
   statuses: string;
   kbPerReq: number;
+  /** Raw counts, for combining rounds. */
+  raw: { seconds: number; bytes: number; connect: number; read: number; write: number; timeout: number; status: number; statuses: Record<string, number> };
 }
 
 const scriptsDir = join(LOCAL, "bench-load");
@@ -118,6 +121,7 @@ function wrk(name: string, url: string, o: { method?: string; body?: string; hea
     non2xx3xx: j.status!,
     statuses: Object.entries(j.statuses).map(([k, v]) => `${k}: ${v}`).join(", "),
     kbPerReq: j.bytes! / Math.max(1, j.requests!) / 1024,
+    raw: { seconds, bytes: j.bytes!, connect: j.connect!, read: j.read!, write: j.write!, timeout: j.timeout!, status: j.status!, statuses: j.statuses },
   };
 }
 
@@ -125,10 +129,68 @@ function wrk(name: string, url: string, o: { method?: string; body?: string; hea
 function measure(name: string, url: string, o: Parameters<typeof wrk>[2] = {}): WrkResult {
   wrk(`${name} warm-up`, url, { ...o, durationS: WARMUP_S });
   const r = wrk(name, url, o);
-  console.log(
-    `  ${name.padEnd(34)} ${r.okRps.toFixed(0).padStart(7)} ok/s (${r.rps.toFixed(0)} answers/s)  p50 ${r.p50Ms.toFixed(1).padStart(7)} ms  p99 ${r.p99Ms.toFixed(1).padStart(7)} ms  errors ${r.errors}${r.errors ? ` (${r.errorKinds})` : ""}  non-2xx/3xx ${r.non2xx3xx}${r.non2xx3xx ? ` [${r.statuses}]` : ""}  ${r.kbPerReq.toFixed(1)} kB/req`,
-  );
+  printResult(r);
   return r;
+}
+
+function printResult(r: WrkResult) {
+  console.log(
+    `  ${r.name.padEnd(34)} ${r.okRps.toFixed(0).padStart(7)} ok/s (${r.rps.toFixed(0)} answers/s)  p50 ${r.p50Ms.toFixed(1).padStart(7)} ms  p99 ${r.p99Ms.toFixed(1).padStart(7)} ms  errors ${r.errors}${r.errors ? ` (${r.errorKinds})` : ""}  non-2xx/3xx ${r.non2xx3xx}${r.non2xx3xx ? ` [${r.statuses}]` : ""}  ${r.kbPerReq.toFixed(1)} kB/req`,
+  );
+}
+
+/** One figure from several rounds: counts summed, p50 the median of the rounds', p99 and max the worst. */
+function combine(name: string, url: string, rounds: WrkResult[]): WrkResult {
+  const sum = (f: (r: WrkResult) => number) => rounds.reduce((n, r) => n + f(r), 0);
+  const seconds = sum((r) => r.raw.seconds);
+  const statuses: Record<string, number> = {};
+  for (const r of rounds) for (const [k, v] of Object.entries(r.raw.statuses)) statuses[k] = (statuses[k] ?? 0) + v;
+  const raw = { seconds, bytes: sum((r) => r.raw.bytes), connect: sum((r) => r.raw.connect), read: sum((r) => r.raw.read), write: sum((r) => r.raw.write), timeout: sum((r) => r.raw.timeout), status: sum((r) => r.raw.status), statuses };
+  const requests = sum((r) => r.requests);
+  const p50s = rounds.map((r) => r.p50Ms).sort((a, b) => a - b);
+  return {
+    name,
+    url,
+    rps: requests / seconds,
+    okRps: Object.entries(statuses).reduce((n, [k, v]) => (Number(k) < 400 ? n + v : n), 0) / seconds,
+    p50Ms: p50s[Math.floor(p50s.length / 2)]!,
+    p99Ms: Math.max(...rounds.map((r) => r.p99Ms)),
+    maxMs: Math.max(...rounds.map((r) => r.maxMs)),
+    requests,
+    errors: raw.connect + raw.read + raw.write + raw.timeout,
+    errorKinds: `connect ${raw.connect}, read ${raw.read}, write ${raw.write}, timeout ${raw.timeout}`,
+    non2xx3xx: raw.status,
+    statuses: Object.entries(statuses).map(([k, v]) => `${k}: ${v}`).join(", "),
+    kbPerReq: raw.bytes / Math.max(1, requests) / 1024,
+    raw,
+  };
+}
+
+/**
+ * Targets compared with each other are measured in interleaved rounds (each round runs every
+ * target for duration/ROUNDS, in a rotated order), so a burst of other work on this shared
+ * machine falls on all of them alike instead of on whichever ran at that moment.
+ */
+const ROUNDS = flags.quick ? 1 : 3;
+function measureTogether(targets: Array<{ name: string; url: string; o?: Parameters<typeof wrk>[2] }>): WrkResult[] {
+  for (const t of targets) wrk(`${t.name} warm-up`, t.url, { ...t.o, durationS: WARMUP_S });
+  const rounds: WrkResult[][] = targets.map(() => []);
+  for (let round = 0; round < ROUNDS; round++) {
+    for (let k = 0; k < targets.length; k++) {
+      const i = (k + round) % targets.length;
+      const t = targets[i]!;
+      rounds[i]!.push(wrk(`${t.name} round ${round + 1}`, t.url, { ...t.o, durationS: Math.max(1, Math.round(DURATION_S / ROUNDS)) }));
+    }
+  }
+  const out = targets.map((t, i) => combine(t.name, t.url, rounds[i]!));
+  for (const r of out) printResult(r);
+  if (ROUNDS > 1) {
+    const ref = rounds[0]!;
+    for (let i = 1; i < targets.length; i++) {
+      console.log(`  ${targets[i]!.name} / ${targets[0]!.name} by round: ${rounds[i]!.map((r, k) => `${((r.okRps / ref[k]!.okRps) * 100).toFixed(0)}%`).join(", ")}`);
+    }
+  }
+  return out;
 }
 
 /** A GET on a fresh connection (after a wrk run the pooled ones may be half-closed), retried. */
@@ -219,13 +281,17 @@ try {
   const assessed = await fetch(`${base}/api/v1/assessments`, { method: "POST", headers: { "Content-Type": "application/json", Connection: "close" }, body: assessment });
   if (!assessed.ok) throw new Error(`POST /api/v1/assessments answered ${assessed.status}: ${await assessed.text()}`);
 
-  console.log("\n[bench] pages (one app process)");
-  const minimalR = measure("minimal React Router page", `http://127.0.0.1:${minimalPort}/`);
-  const board = measure("board /", `${base}/`);
-  const noticePage = measure(`notice page /notices/${notice.id}`, `${base}/notices/${notice.id}`);
-  console.log("\n[bench] API (one app process)");
-  const bareR = measure("bare node:http + mysql2 (same query)", `http://127.0.0.1:${barePort}/`);
-  const api = measure("GET /api/v1/notices?bbox=…", apiUrl);
+  console.log(`\n[bench] pages (one app process; ${ROUNDS} interleaved rounds)`);
+  const [minimalR, board, noticePage] = measureTogether([
+    { name: "minimal React Router page", url: `http://127.0.0.1:${minimalPort}/` },
+    { name: "board /", url: `${base}/` },
+    { name: `notice page /notices/${notice.id}`, url: `${base}/notices/${notice.id}` },
+  ]) as [WrkResult, WrkResult, WrkResult];
+  console.log(`\n[bench] API (one app process; ${ROUNDS} interleaved rounds)`);
+  const [bareR, api] = measureTogether([
+    { name: "bare node:http + mysql2 (same query)", url: `http://127.0.0.1:${barePort}/` },
+    { name: "GET /api/v1/notices?bbox=…", url: apiUrl },
+  ]) as [WrkResult, WrkResult];
   const post = measure("POST /api/v1/assessments", `${base}/api/v1/assessments`, { method: "POST", body: assessment, headers: { "Content-Type": "application/json" } });
   results.push(minimalR, board, noticePage, bareR, api, post);
 
@@ -233,10 +299,17 @@ try {
   // body caches (app/services/http-cache.server.ts) and does the whole work, as the first reader
   // after each change does.
   console.log("\n[bench] without the caches (a new URL for every request)");
-  const boardUncached = measure("board / (uncached)", `${base}/?v=BUST`, { bust: true });
-  const noticeUncached = measure(`notice page (uncached)`, `${base}/notices/${notice.id}?v=BUST`, { bust: true });
-  const apiUncached = measure("GET /api/v1/notices (uncached)", `${apiUrl}BUST`, { bust: true });
-  results.push(boardUncached, noticeUncached, apiUncached);
+  // Beside their references again, in interleaved rounds of their own.
+  const [minimalAgain, boardUncached, noticeUncached] = measureTogether([
+    { name: "minimal React Router page (again)", url: `http://127.0.0.1:${minimalPort}/` },
+    { name: "board / (uncached)", url: `${base}/?v=BUST`, o: { bust: true } },
+    { name: `notice page (uncached)`, url: `${base}/notices/${notice.id}?v=BUST`, o: { bust: true } },
+  ]) as [WrkResult, WrkResult, WrkResult];
+  const [bareAgain, apiUncached] = measureTogether([
+    { name: "bare node:http + mysql2 (again)", url: `http://127.0.0.1:${barePort}/` },
+    { name: "GET /api/v1/notices (uncached)", url: `${apiUrl}BUST`, o: { bust: true } },
+  ]) as [WrkResult, WrkResult];
+  results.push(minimalAgain, boardUncached, noticeUncached, bareAgain, apiUncached);
 
   console.log("\n[bench] validators: the 304 path (If-None-Match)");
   for (const [name, url] of [["board / (304)", `${base}/`], [`notice page (304)`, `${base}/notices/${notice.id}`], ["GET /api/v1/notices (304)", apiUrl]] as const) {
@@ -311,9 +384,9 @@ try {
     { goal: "API ≥ 50% of the bare handler", value: ratio(api, bareR), min: 0.5 },
   ];
   const uncached = [
-    { goal: "board without caches, against the minimal page", value: ratio(boardUncached, minimalR) },
-    { goal: "notice page without caches, against the minimal page", value: ratio(noticeUncached, minimalR) },
-    { goal: "API without caches, against the bare handler", value: ratio(apiUncached, bareR) },
+    { goal: "board without caches, against the minimal page", value: ratio(boardUncached, minimalAgain) },
+    { goal: "notice page without caches, against the minimal page", value: ratio(noticeUncached, minimalAgain) },
+    { goal: "API without caches, against the bare handler", value: ratio(apiUncached, bareAgain) },
   ];
   const errorsTotal = results.reduce((s, r) => s + r.errors + r.non2xx3xx, 0);
   console.log("\n[bench] goals");

@@ -176,7 +176,9 @@ export function registerDocumentCsp(fn: (nonce: string) => string) {
   documentCspFor = fn;
 }
 
-const payloads = new LRUCache<string, { value: unknown }>({ max: 500, ttl: 15 * 60_000 });
+// Bounded by entries and by an estimate of size (twice the JSON length), so many distinct URLs
+// (every filter of the notices list, a crawler) cannot grow it without limit.
+const payloads = new LRUCache<string, { value: unknown; size: number }>({ max: 500, maxSize: 48 * 1024 * 1024, sizeCalculation: (v) => v.size, ttl: 15 * 60_000 });
 
 /** The loader's payload for this request's fingerprint, built once per fingerprint. */
 export async function memoPayload<T>(context: Readonly<RouterContextProvider>, build: () => Promise<T>): Promise<T> {
@@ -190,7 +192,7 @@ export async function memoPayload<T>(context: Readonly<RouterContextProvider>, b
   const hit = payloads.get(fingerprint);
   if (hit) return hit.value as T;
   const value = await build();
-  payloads.set(fingerprint, { value });
+  payloads.set(fingerprint, { value, size: (JSON.stringify(value)?.length ?? 0) * 2 + 256 });
   return value;
 }
 
