@@ -20,6 +20,9 @@ export function weakTag(text: string): string {
   return createHash("sha1").update(text).digest("base64url").slice(0, 22);
 }
 
+/** Pages differ for signed-in readers (their name, their links) under the same URL. */
+const PAGE_VARY = "Cookie, Accept-Encoding";
+
 function cacheControl(request: Request, maxAgeS: number): string {
   // Signed-in readers see their name in the header: keep their pages out of shared caches.
   const personal = request.headers.get("Cookie")?.includes("tw_session=");
@@ -68,6 +71,7 @@ export function pageCacheHeaders(request: Request, fingerprintOf: unknown, opts:
   const headers: Record<string, string> = {
     ETag: `W/"${weakTag(JSON.stringify(fingerprintOf) + "|" + (opts.userId ?? ""))}"`,
     "Cache-Control": cacheControl(request, opts.maxAgeS ?? 0),
+    Vary: PAGE_VARY,
   };
   if (opts.lastModified) headers["Last-Modified"] = new Date(opts.lastModified).toUTCString();
   return headers;
@@ -76,7 +80,7 @@ export function pageCacheHeaders(request: Request, fingerprintOf: unknown, opts:
 /** For a route's `headers` export: pass the loader's validators through. */
 export function forwardCacheHeaders({ loaderHeaders }: { loaderHeaders: Headers }) {
   const out = new Headers();
-  for (const name of ["ETag", "Last-Modified", "Cache-Control"]) {
+  for (const name of ["ETag", "Last-Modified", "Cache-Control", "Vary"]) {
     const v = loaderHeaders.get(name);
     if (v) out.set(name, v);
   }
@@ -155,7 +159,7 @@ export function validatedPage(compute: (args: { request: Request; params: Record
     context.set(pageFingerprintContext, fingerprint);
     const matched = matches(request.headers.get("If-None-Match"), fingerprint);
     if (matched && !toastWaiting) {
-      const headers = new Headers({ ETag: matched, "Cache-Control": cacheControl(request, 0) });
+      const headers = new Headers({ ETag: matched, "Cache-Control": cacheControl(request, 0), Vary: PAGE_VARY });
       // The copy the browser keeps carries its own nonce; a 304 replaces the stored headers it
       // names, so it repeats the policy with that nonce.
       const oldNonce = matched.replace(/^W\//, "").replace(/"/g, "").split(".")[1];
@@ -204,7 +208,7 @@ export function validatedHeaders(request: Request, context: Readonly<RouterConte
   } catch {
     fingerprint = null;
   }
-  const headers: Record<string, string> = { "Cache-Control": cacheControl(request, 0) };
+  const headers: Record<string, string> = { "Cache-Control": cacheControl(request, 0), Vary: PAGE_VARY };
   if (fingerprint) headers.ETag = `W/"${fingerprint}"`;
   if (opts.lastModified) headers["Last-Modified"] = new Date(opts.lastModified).toUTCString();
   return headers;

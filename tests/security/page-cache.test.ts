@@ -136,6 +136,8 @@ describe("validated pages", () => {
     expect(mine.text).toContain(name);
     const anonymous = await request(base(), "/");
     expect(anonymous.text).not.toContain(name);
+    // A shared cache must keep the two apart too: both answers vary on the cookie.
+    for (const r of [mine, anonymous]) expect(r.headers.get("Vary")).toMatch(/\bCookie\b/);
     // Nor does the anonymous validator answer for the signed-in page, or the other way round.
     const cross = await request(base(), "/", { headers: { "If-None-Match": mine.headers.get("ETag")! } });
     expect(cross.status).toBe(200);
