@@ -8,7 +8,10 @@ import GeoJSON from "ol/format/GeoJSON";
 import { LineString, Point, type Geometry } from "ol/geom";
 import type { Circle as OlCircle, LineString as OlLineString, Point as OlPoint, Polygon as OlPolygon } from "ol/geom";
 import Draw from "ol/interaction/Draw";
-import VectorLayer from "ol/layer/Vector";
+// Vector image layers: each draws its features into an image of its own when its data or the view
+// changes, and other frames only compose that image (a plain vector layer draws every feature again
+// on every frame, e.g. all the aids once more when the notices arrive or an icon finishes loading).
+import VectorLayer from "ol/layer/VectorImage";
 import { fromLonLat, toLonLat, transformExtent } from "ol/proj";
 import { createEmpty, extend, getCenter, isEmpty } from "ol/extent";
 import LayerGroup from "ol/layer/Group";
