@@ -84,20 +84,22 @@ export function NoticeTable({
             </tr>
           ) : null}
           {notices.map((n) => (
-            <tr key={n.id} className={`border-b border-mist/70 align-top ${n.urgency === "urgent" && n.effectiveStatus === "in_force" ? "bg-signal-light" : ""}`} data-notice-id={n.id}>
-              <td className="position px-3 py-2 font-semibold">{n.seriesNumber ?? "Draft"}</td>
-              <td className="px-3 py-2">
+            // Cell padding set once per row (`*:`): the board lists every notice in force, and
+            // each repeated class is bytes in every copy of the page.
+            <tr key={n.id} className={`border-b border-mist/70 align-top *:px-3 *:py-2 ${n.urgency === "urgent" && n.effectiveStatus === "in_force" ? "bg-signal-light" : ""}`} data-notice-id={n.id}>
+              <td className="position font-semibold">{n.seriesNumber ?? "Draft"}</td>
+              <td>
                 <Link to={hrefFor(n)} className="font-semibold">
                   {n.title}
                 </Link>
                 <div className="line-clamp-2 max-w-xl text-slate">{n.locality}</div>
               </td>
-              <td className="px-3 py-2">{generalTypeLabel(n.generalType)}</td>
-              <td className="px-3 py-2">
+              <td>{generalTypeLabel(n.generalType)}</td>
+              <td>
                 <NoticeBadges status={n.effectiveStatus} urgency={n.urgency} />
               </td>
-              <td className="px-3 py-2 whitespace-nowrap">{formatLocal(n.validFrom, zone)}</td>
-              <td className="px-3 py-2 whitespace-nowrap">{n.validUntil ? formatLocal(n.validUntil, zone) : "Until further notice"}</td>
+              <td className="whitespace-nowrap">{formatLocal(n.validFrom, zone)}</td>
+              <td className="whitespace-nowrap">{n.validUntil ? formatLocal(n.validUntil, zone) : "Until further notice"}</td>
             </tr>
           ))}
         </tbody>
