@@ -42,16 +42,24 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   // Public page: no guard. The signed-in user only changes the cache key (validatedPage).
   const payload = await memoPayload(context, async () => {
     const harbour = await getDefaultHarbour();
+    const zone = harbour?.timeZone ?? "Europe/London";
     const [inForce, ended] = await Promise.all([listInForce(harbour?.id, undefined, undefined, { withParts: false }), listRecentlyEnded(harbour?.id, 14, undefined, undefined, { withParts: false })]);
     return {
       harbourName: harbour?.name ?? "Kestrel Sound",
       authorityName: harbour?.authorityName ?? "",
-      zone: harbour?.timeZone ?? "Europe/London",
+      zone,
       basemap: harbour?.basemap ?? null,
       bounds: boundsOf(harbour?.boundary),
       tileUrl: env().MAP_TILE_URL ?? null,
-      inForce: inForce.map(noticeRowData),
-      ended: ended.map((n) => ({ ...noticeRowData(n), cancelledAt: n.cancelledAt, cancellationReason: n.cancellationReason })),
+      // Dates formatted here, in the harbour's zone (see NoticeRowData).
+      inForce: inForce.map((n) => noticeRowData(n, zone)),
+      ended: ended.map((n) => ({
+        id: n.id,
+        seriesNumber: n.seriesNumber,
+        title: n.title,
+        effectiveStatus: n.effectiveStatus,
+        when: n.effectiveStatus === "expired" ? `ended ${formatLocal(n.validUntil, zone)}` : `${formatLocal(n.cancelledAt, zone)}${n.cancellationReason ? ` — ${n.cancellationReason}` : ""}`,
+      })),
       lastChange: [...inForce, ...ended].reduce<string | null>((m, n) => (!m || n.updatedAt > m ? n.updatedAt : m), null),
     };
   });
@@ -116,6 +124,8 @@ export default function Board({ loaderData }: Route.ComponentProps) {
     [aidFeatures, visible],
   );
   const urgent = d.inForce.filter((n) => n.urgency === "urgent");
+  // The map's layers arrive after hydration and re-render the board: the table stays as it is.
+  const table = useMemo(() => <NoticeTable notices={d.inForce} zone={d.zone} caption="Notices in force" />, [d.inForce, d.zone]);
   return (
     <div className="space-y-6">
       <div className="flex flex-wrap items-end justify-between gap-4">
@@ -182,7 +192,7 @@ export default function Board({ loaderData }: Route.ComponentProps) {
           Notices in force
         </h2>
         <div className="mt-2">
-          <NoticeTable notices={d.inForce} zone={d.zone} caption="Notices in force" />
+          {table}
         </div>
       </section>
       {d.ended.length ? (
@@ -197,9 +207,7 @@ export default function Board({ loaderData }: Route.ComponentProps) {
                 <Link to={`/notices/${n.id}`}>
                   {n.seriesNumber} {n.title}
                 </Link>{" "}
-                <span className="text-sm text-slate">
-                  {n.effectiveStatus === "expired" ? `ended ${formatLocal(n.validUntil, d.zone)}` : `${formatLocal(n.cancelledAt, d.zone)}${n.cancellationReason ? ` — ${n.cancellationReason}` : ""}`}
-                </span>
+                <span className="text-sm text-slate">{n.when}</span>
               </li>
             ))}
           </ul>

@@ -5,6 +5,7 @@ import { MapView } from "~/components/map/MapView";
 import { noticeMapFeature } from "~/components/notices/features";
 import { formatLocal } from "~/components/notices/format";
 import { NoticeDetail } from "~/components/notices/NoticeDetail";
+import { renderBroadcast } from "~/lib/notices/broadcast";
 import { env } from "~/env.server";
 import { parseCrsCode } from "~/lib/geo/crs";
 import { can } from "~/lib/permissions";
@@ -65,6 +66,9 @@ async function buildPayload(request: Request, id: string) {
     basemap: harbour?.basemap ?? null,
     tileUrl: env().MAP_TILE_URL ?? null,
     positions: positionRows(notice, chosenCrs),
+    // Made here, so the browser needs none of the geometry code (proj4, turf) for this page.
+    broadcast: renderBroadcast(notice),
+    mapFeatures: [noticeMapFeature(notice, false)],
     crsLabels,
     chosenCrs,
     chosenCrsLabel: chosenCrs ? crsLabel(chosenCrs) : null,
@@ -86,10 +90,10 @@ export default function NoticePage({ loaderData }: Route.ComponentProps) {
       </nav>
       <Caution compact />
       <div className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,1fr)_26rem]">
-        <NoticeDetail notice={n} zone={d.zone} positions={d.positions} crsLabels={d.crsLabels} chosenCrsLabel={d.chosenCrsLabel} />
+        <NoticeDetail notice={n} zone={d.zone} positions={d.positions} crsLabels={d.crsLabels} chosenCrsLabel={d.chosenCrsLabel} broadcast={d.broadcast} />
         <aside className="space-y-4">
           <div className="notice-map">
-            <MapView ariaLabel={`Map of ${n.seriesNumber ?? "the draft"}: ${n.title}. The positions are listed in the table.`} basemap={d.basemap} tileUrl={d.tileUrl} layers={[{ id: "notice", features: [noticeMapFeature(n, false)] }]} height="22rem" />
+            <MapView ariaLabel={`Map of ${n.seriesNumber ?? "the draft"}: ${n.title}. The positions are listed in the table.`} basemap={d.basemap} tileUrl={d.tileUrl} layers={[{ id: "notice", features: d.mapFeatures }]} height="22rem" />
           </div>
           <Form method="get" className="no-print card space-y-2">
             <label htmlFor="crs" className="field-label">

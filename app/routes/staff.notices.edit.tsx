@@ -7,6 +7,7 @@ import { Caution } from "~/components/Caution";
 import { FormError, TextArea } from "~/components/forms";
 import { aidMapFeature } from "~/components/notices/features";
 import { NoticeDetail } from "~/components/notices/NoticeDetail";
+import { renderBroadcast } from "~/lib/notices/broadcast";
 import { NoticeEditor } from "~/components/notices/NoticeEditor";
 import { env } from "~/env.server";
 import { can } from "~/lib/permissions";
@@ -45,6 +46,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     basemap: harbour.basemap,
     tileUrl: env().MAP_TILE_URL ?? null,
     positions: positionRows(notice, null),
+    broadcast: renderBroadcast(notice),
     crsLabels: Object.fromEntries(notice.parts.map((p) => [p.crs, crsLabel(p.crs)])),
     canPublish: can(user.role, "notice:publish"),
     canEdit: notice.effectiveStatus === "draft" || can(user.role, "notice:publish"),
@@ -152,7 +154,7 @@ export default function EditNotice({ loaderData, actionData }: Route.ComponentPr
           Preview (last saved version, as the public will see it)
         </h2>
         <div className="rounded-lg border-2 border-dashed border-mist p-4">
-          <NoticeDetail notice={n} zone={d.zone} positions={d.positions} crsLabels={d.crsLabels} chosenCrsLabel={null} />
+          <NoticeDetail notice={n} zone={d.zone} positions={d.positions} crsLabels={d.crsLabels} chosenCrsLabel={null} broadcast={d.broadcast} />
         </div>
       </section>
     </div>

@@ -1,5 +1,4 @@
 import { Link } from "react-router";
-import { renderBroadcast } from "~/lib/notices/broadcast";
 import type { NoticeView } from "~/lib/notices/types";
 import { detailTypeLabel, generalTypeLabel, PART_KIND_LABELS, restrictionLabel } from "~/lib/notices/vocabulary";
 import type { PositionRow } from "~/lib/notices/position-table";
@@ -14,12 +13,15 @@ export function NoticeDetail({
   positions,
   crsLabels,
   chosenCrsLabel,
+  broadcast,
 }: {
   notice: NoticeView;
   zone: string;
   positions: PositionRow[];
   crsLabels: Record<string, string>;
   chosenCrsLabel: string | null;
+  /** renderBroadcast(notice), made by the loader: the geometry code stays out of the browser. */
+  broadcast: string;
 }) {
   const n = notice;
   const ended = n.effectiveStatus !== "in_force" && n.effectiveStatus !== "draft";
@@ -122,7 +124,8 @@ export function NoticeDetail({
           Positions
         </h2>
         {n.parts.map((p) => (
-          <div key={p.seq} className="mt-3 overflow-x-auto">
+          // Scrolls sideways on a phone: a focusable, named region so the keyboard can scroll it.
+          <div key={p.seq} className="mt-3 overflow-x-auto" tabIndex={0} role="region" aria-label={`Positions of part ${p.seq}`}>
             <table className="min-w-full border-collapse bg-white text-sm" data-testid={`positions-part-${p.seq}`}>
               <caption className="py-1 text-left font-semibold">
                 Part {p.seq}: {PART_KIND_LABELS[p.kind]}
@@ -176,7 +179,7 @@ export function NoticeDetail({
           Broadcast text
         </h2>
         <pre className={`mt-1 overflow-x-auto rounded-md border border-mist bg-white p-3 font-mono text-sm ${ended ? "text-slate" : ""}`} data-testid="broadcast">
-          {renderBroadcast(n)}
+          {broadcast}
         </pre>
       </section>
     </article>
