@@ -182,6 +182,7 @@ export default function Board({ loaderData }: Route.ComponentProps) {
         fit={d.bounds ?? "layers"}
         onMoveEnd={onMoveEnd}
         height="28rem"
+        loadWhenVisible
       />
       <p className="text-xs text-slate">
         Map symbols: diamonds and outlined areas are notices (orange with “!” = urgent); buoy symbols follow the IALA colours and shapes (region A). Click a

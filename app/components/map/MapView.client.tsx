@@ -80,7 +80,14 @@ function cached(key: string, make: () => Style): Style {
   return s;
 }
 
-function featureStyle(f: FeatureLike): Style | Style[] {
+/**
+ * Aid labels (their codes) only from about zoom 14 (≤ 10 m per pixel): at the scale of the whole
+ * harbour hundreds of codes overlap into an unreadable smear, and drawing them was most of the
+ * map's first frame.
+ */
+const AID_LABEL_MAX_RESOLUTION_M = 10;
+
+function featureStyle(f: FeatureLike, resolution: number): Style | Style[] {
   const p = f.getProperties() as Record<string, unknown>;
   const symbol = String(p.symbol ?? "");
   const styles: Style[] = [];
@@ -91,7 +98,7 @@ function featureStyle(f: FeatureLike): Style | Style[] {
       if (p.status && p.status !== "operating") {
         styles.push(cached("aid-status", () => new Style({ image: new CircleStyle({ radius: 13, stroke: new Stroke({ color: NOTICE_COLOURS.urgent, width: 2, lineDash: [3, 2] }) }) })));
       }
-      const l = label(p.label, 12);
+      const l = resolution <= AID_LABEL_MAX_RESOLUTION_M ? label(p.label, 12) : null;
       if (l) styles.push(l);
       return styles;
     }

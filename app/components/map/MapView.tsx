@@ -30,7 +30,7 @@
  * - `onFeatureClick(properties)`: called when a feature is clicked (default: follow properties.href).
  * - `height`: CSS height (default "24rem"); `className` for the frame.
  */
-import { lazy, Suspense, useEffect, useState } from "react";
+import { lazy, Suspense, useEffect, useRef, useState } from "react";
 
 export type LonLat = [number, number];
 export type Bbox = [number, number, number, number];
@@ -58,6 +58,12 @@ export type MapViewProps = {
   onFeatureClick?: (properties: Record<string, unknown>) => void;
   height?: string;
   className?: string;
+  /**
+   * Load OpenLayers only when the map comes near the viewport (IntersectionObserver, 300 px
+   * ahead), for pages where the map sits below the first screen on a phone and the text above it
+   * is what the reader came for (the board). Default: load after hydration.
+   */
+  loadWhenVisible?: boolean;
 };
 
 const ClientMap = lazy(() => import("./MapView.client"));
@@ -68,8 +74,29 @@ function useHydrated(): boolean {
   return hydrated;
 }
 
+/** True once the element is within `marginPx` of the viewport (at once where there is no IntersectionObserver). */
+function useNearViewport(ref: React.RefObject<HTMLElement | null>, enabled: boolean, marginPx = 300): boolean {
+  const [near, setNear] = useState(!enabled);
+  useEffect(() => {
+    if (!enabled || near) return;
+    const el = ref.current;
+    if (!el || typeof IntersectionObserver === "undefined") {
+      setNear(true);
+      return;
+    }
+    const io = new IntersectionObserver((entries) => {
+      if (entries.some((e) => e.isIntersecting)) setNear(true);
+    }, { rootMargin: `${marginPx}px 0px` });
+    io.observe(el);
+    return () => io.disconnect();
+  }, [enabled, near, ref, marginPx]);
+  return near;
+}
+
 export function MapView(props: MapViewProps) {
   const hydrated = useHydrated();
+  const frame = useRef<HTMLDivElement>(null);
+  const near = useNearViewport(frame, Boolean(props.loadWhenVisible));
   const height = props.height ?? "24rem";
   // Without JavaScript the map never loads: say so instead of "Loading map…" (hidden by app.css
   // when scripting is off).
@@ -86,8 +113,9 @@ export function MapView(props: MapViewProps) {
       className={`no-print-map relative overflow-hidden rounded-lg border border-mist bg-[#dcecf2] ${props.className ?? ""}`}
       style={{ height }}
       data-testid="map"
+      ref={frame}
     >
-      {hydrated ? (
+      {hydrated && near ? (
         <Suspense fallback={placeholder}>
           <ClientMap {...props} />
         </Suspense>
