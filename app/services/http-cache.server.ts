@@ -3,7 +3,8 @@
 //
 // Resource routes (API, feeds, GPX) hash their body: `cachedResponse`.
 // Pages: the loader fingerprints its data (`pageCacheHeaders`) and the route's middleware
-// (`conditionalGet`) answers 304 when the fingerprint still matches. Built documents carry a
+// (`conditionalGet`) answers 304 when the fingerprint still matches — or, for the public pages
+// read most, a cheap validator runs before any loader (`validatedPage`, below). Built documents carry a
 // per-response CSP nonce, so the page's ETag also carries that nonce and a 304 repeats the CSP
 // with the nonce of the copy the browser holds (a 304 updates the cached response's headers).
 import { createHash, randomBytes } from "node:crypto";
@@ -23,10 +24,18 @@ export function weakTag(text: string): string {
 /** Pages differ for signed-in readers (their name, their links) under the same URL. */
 const PAGE_VARY = "Cookie, Accept-Encoding";
 
+function hasSession(request: Request): boolean {
+  return request.headers.get("Cookie")?.includes("tw_session=") ?? false;
+}
+
+/** `W/"fingerprint.nonce"` → `fingerprint.nonce`. */
+function tagValue(tag: string): string {
+  return tag.replace(/^W\//, "").replace(/"/g, "");
+}
+
 function cacheControl(request: Request, maxAgeS: number): string {
   // Signed-in readers see their name in the header: keep their pages out of shared caches.
-  const personal = request.headers.get("Cookie")?.includes("tw_session=");
-  if (personal) return "private, no-cache";
+  if (hasSession(request)) return "private, no-cache";
   // Safety information: pages revalidate every time (cheap with the ETag); resources may be
   // reused for a few seconds.
   return maxAgeS > 0 ? `public, max-age=${maxAgeS}, stale-while-revalidate=${maxAgeS * 5}` : "public, no-cache";
@@ -37,7 +46,7 @@ function matches(ifNoneMatch: string | null, fingerprint: string): string | null
   for (const raw of ifNoneMatch.split(",")) {
     const tag = raw.trim();
     if (tag === "*") return tag;
-    const inner = tag.replace(/^W\//, "").replace(/^"|"$/g, "");
+    const inner = tagValue(tag);
     if (inner === fingerprint || inner.split(".")[0] === fingerprint) return tag;
   }
   return null;
@@ -99,7 +108,7 @@ export const conditionalGet: MiddlewareFunction<Response> = async ({ request }, 
     res.headers.set("Cache-Control", "private, no-store");
     return res;
   }
-  const fingerprint = etag.replace(/^W\//, "").replace(/"/g, "");
+  const fingerprint = tagValue(etag);
   const csp = res.headers.get("Content-Security-Policy");
   const nonce = csp?.match(/'nonce-([^']+)'/)?.[1];
   res.headers.set("ETag", nonce ? `W/"${fingerprint}.${nonce}"` : `W/"${fingerprint}"`);
@@ -112,7 +121,7 @@ export const conditionalGet: MiddlewareFunction<Response> = async ({ request }, 
     const v = res.headers.get(name);
     if (v) headers.set(name, v);
   }
-  const oldNonce = matched.replace(/^W\//, "").replace(/"/g, "").split(".")[1];
+  const oldNonce = tagValue(matched).split(".")[1];
   if (csp && nonce) headers.set("Content-Security-Policy", oldNonce ? csp.replace(`'nonce-${nonce}'`, `'nonce-${oldNonce}'`) : csp);
   return new Response(null, { status: 304, headers });
 };
@@ -130,7 +139,6 @@ export const conditionalGet: MiddlewareFunction<Response> = async ({ request }, 
 // covering everything the page shows; the fingerprint is checked on every request, so no copy
 // outlives a change.
 
-
 /** Changes with every build: a copy rendered by other code is never reused. */
 const BUILD_ID = (() => {
   try {
@@ -143,10 +151,6 @@ const BUILD_ID = (() => {
 const DEV = process.env.NODE_ENV === "development";
 
 export const pageFingerprintContext = createContext<string | null>(null);
-
-function hasSession(request: Request): boolean {
-  return request.headers.get("Cookie")?.includes("tw_session=") ?? false;
-}
 
 export function validatedPage(compute: (args: { request: Request; params: Record<string, string | undefined> }) => Promise<unknown>): MiddlewareFunction<Response> {
   return async (args, next) => {
@@ -167,7 +171,7 @@ export function validatedPage(compute: (args: { request: Request; params: Record
       const headers = new Headers({ ETag: matched, "Cache-Control": cacheControl(request, 0), Vary: PAGE_VARY });
       // The copy the browser keeps carries its own nonce; a 304 replaces the stored headers it
       // names, so it repeats the policy with that nonce.
-      const oldNonce = matched.replace(/^W\//, "").replace(/"/g, "").split(".")[1];
+      const oldNonce = tagValue(matched).split(".")[1];
       if (oldNonce && process.env.NODE_ENV === "production") headers.set("Content-Security-Policy", documentCspFor(oldNonce));
       return new Response(null, { status: 304, headers });
     }
@@ -189,14 +193,18 @@ export function registerDocumentCsp(fn: (nonce: string) => string) {
 // (every filter of the notices list, a crawler) cannot grow it without limit.
 const payloads = new LRUCache<string, { value: unknown; size: number }>({ max: 500, maxSize: 48 * 1024 * 1024, sizeCalculation: (v) => v.size, ttl: 15 * 60_000 });
 
+/** The fingerprint validatedPage set for this request; null outside it (dev server, tests calling loaders). */
+function fingerprintOf(context: Readonly<RouterContextProvider> | undefined): string | null {
+  try {
+    return context?.get(pageFingerprintContext) ?? null;
+  } catch {
+    return null;
+  }
+}
+
 /** The loader's payload for this request's fingerprint, built once per fingerprint. */
 export async function memoPayload<T>(context: Readonly<RouterContextProvider>, build: () => Promise<T>): Promise<T> {
-  let fingerprint: string | null = null;
-  try {
-    fingerprint = context.get(pageFingerprintContext);
-  } catch {
-    fingerprint = null;
-  }
+  const fingerprint = fingerprintOf(context);
   if (!fingerprint) return build();
   const hit = payloads.get(fingerprint);
   if (hit) return hit.value as T;
@@ -207,12 +215,7 @@ export async function memoPayload<T>(context: Readonly<RouterContextProvider>, b
 
 /** Validator headers for a page under `validatedPage`: its fingerprint is the ETag. */
 export function validatedHeaders(request: Request, context: Readonly<RouterContextProvider>, opts: { lastModified?: Date | null } = {}) {
-  let fingerprint: string | null = null;
-  try {
-    fingerprint = context.get(pageFingerprintContext);
-  } catch {
-    fingerprint = null;
-  }
+  const fingerprint = fingerprintOf(context);
   const headers: Record<string, string> = { "Cache-Control": cacheControl(request, 0), Vary: PAGE_VARY };
   if (fingerprint) headers.ETag = `W/"${fingerprint}"`;
   if (opts.lastModified) headers["Last-Modified"] = new Date(opts.lastModified).toUTCString();
@@ -249,7 +252,7 @@ export function documentCacheKey(request: Request, status: number, headers: Head
   if (status !== 200 || (request.method !== "GET" && request.method !== "HEAD") || !isDocumentRequest(request)) return null;
   const etag = headers.get("ETag");
   if (!etag || headers.has("Set-Cookie") || !headers.get("Cache-Control")?.startsWith("public") || hasSession(request)) return null;
-  return keyFor(request, etag.replace(/^W\//, "").replace(/"/g, ""));
+  return keyFor(request, tagValue(etag));
 }
 
 function keyFor(request: Request, fingerprint: string): string {
