@@ -5,10 +5,11 @@ import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { data, Link } from "react-router";
 import type { Route } from "./+types/home";
 import { Caution } from "~/components/Caution";
-import { MapView, type Bbox, type MapFeature } from "~/components/map/MapView";
+import { MapView, type Bbox, type LonLat, type MapFeature } from "~/components/map/MapView";
 import { formatLocal } from "~/components/notices/format";
 import { NoticeTable, noticeRowData } from "~/components/notices/NoticeTable";
 import { env } from "~/env.server";
+import { bboxOf } from "~/lib/notices/geometry";
 import { getDefaultHarbour } from "~/models/harbour.server";
 import { listInForce, listRecentlyEnded } from "~/models/notice.server";
 import { publicRevision } from "~/models/public-revision.server";
@@ -25,17 +26,15 @@ export const middleware: Route.MiddlewareFunction[] = [
 export const headers = forwardCacheHeaders;
 export const meta: Route.MetaFunction = () => [{ title: "Notice board · Tidewire · Kestrel Sound" }];
 
+/** The harbour boundary's extent (any GeoJSON geometry), for the map's first view. */
 function boundsOf(geometry: { coordinates: unknown } | undefined): Bbox | null {
-  const flat: number[][] = [];
+  const points: LonLat[] = [];
   const walk = (c: unknown) => {
-    if (Array.isArray(c) && typeof c[0] === "number") flat.push(c as number[]);
+    if (Array.isArray(c) && typeof c[0] === "number") points.push(c as LonLat);
     else if (Array.isArray(c)) c.forEach(walk);
   };
   walk(geometry?.coordinates);
-  if (!flat.length) return null;
-  const lons = flat.map((p) => p[0]!);
-  const lats = flat.map((p) => p[1]!);
-  return [Math.min(...lons), Math.min(...lats), Math.max(...lons), Math.max(...lats)];
+  return points.length ? bboxOf(points) : null;
 }
 
 export async function loader({ request, context }: Route.LoaderArgs) {
@@ -68,10 +67,11 @@ export async function loader({ request, context }: Route.LoaderArgs) {
 
 type ApiFeature = { id: number | string; geometry: MapFeature["geometry"]; properties: Record<string, unknown> };
 
-/** The aids layer from GET /api/v1/aids, once after hydration (cached by the browser). */
-function useAidFeatures(): MapFeature[] {
+/** The aids layer from GET /api/v1/aids, once the map is there (`mapLive`; cached by the browser). */
+function useAidFeatures(mapLive: boolean): MapFeature[] {
   const [aids, setAids] = useState<MapFeature[]>([]);
   useEffect(() => {
+    if (!mapLive) return;
     let live = true;
     fetch("/api/v1/aids")
       .then((r) => (r.ok ? r.json() : null))
@@ -90,16 +90,19 @@ function useAidFeatures(): MapFeature[] {
     return () => {
       live = false;
     };
-  }, []);
+  }, [mapLive]);
   return aids;
 }
 
 export default function Board({ loaderData }: Route.ComponentProps) {
   const d = loaderData;
   const [visible, setVisible] = useState<MapFeature[]>([]);
-  const aidFeatures = useAidFeatures();
+  // The map loads only when it nears the viewport (loadWhenVisible): its first move says it is there.
+  const [mapLive, setMapLive] = useState(false);
+  const aidFeatures = useAidFeatures(mapLive);
   const request = useRef(0);
   const onMoveEnd = useCallback((bbox: Bbox) => {
+    setMapLive(true);
     const mine = ++request.current;
     fetch(`/api/v1/notices?bbox=${bbox.map((v) => v.toFixed(4)).join(",")}&limit=500`)
       .then((r) => (r.ok ? r.json() : null))
